@@ -1,0 +1,13 @@
+// Package assets holds the files built into the programs: the demo scene
+// and the icon. Every scene here is invented.
+package assets
+
+import _ "embed"
+
+// DemoScene is the built-in demo: a foil of a made-up nickel alloy, imaged
+// in g = 200 near [011] at 200 kV, holding a mixed dislocation inclined
+// through the foil, a small coherent precipitate with a negative misfit,
+// and an intrinsic stacking fault on (1 1 1) crossing the foil.
+//
+//go:embed demo.json
+var DemoScene []byte

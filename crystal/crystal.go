@@ -1,0 +1,169 @@
+package crystal
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// Atom is one atomic site: fractional coordinates, occupancy in (0, 1] and
+// isotropic Debye–Waller factor B = 8π²⟨u²⟩ in nm² (1 Å² = 0.01 nm²).
+type Atom struct {
+	Element   string
+	XYZ       [3]float64
+	Occupancy float64
+	BIsoNm2   float64
+}
+
+// Crystal is a cell with every atom in it (already expanded by symmetry)
+// and, when HasElastic, its elastic constants.
+type Crystal struct {
+	Name       string
+	Structure  string // e.g. "fcc (Fm-3m)"; informative only
+	Source     string // where the numbers came from; informative only
+	Cell       Cell
+	Atoms      []Atom
+	Elastic    Elastic
+	HasElastic bool
+}
+
+// mergeNm is the distance below which two symmetry images of one atom are
+// taken to be one site. CIF coordinates are commonly rounded to
+// four decimals (≈ 1e-4 nm in a 1 nm cell); no two atoms of one element sit
+// closer than about 0.1 nm in a real structure.
+const mergeNm = 0.01
+
+// New builds a crystal from the asymmetric unit: every atom is mapped by
+// each symmetry operator ("x,y,z"-style, see ParseSymOp) and then by each
+// lattice translation of the centring letter (P, I, F, A, B, C, R; see
+// Centring), wrapped into [0, 1), and images closer than 0.01 nm merged
+// into one site at their mean position (which puts a coordinate given as
+// 0.3333 on its special position 1/3). Only images of one input atom merge:
+// two input atoms on one site (a mixed or split site with partial
+// occupancies) stay two. With neither operators nor centring the atoms are
+// taken as the full cell (P1). Operators and a centring letter may be given
+// together; the centring translations then follow each operator. Elements are checked against the
+// scattering-factor table; occupancies must lie in (0, 1] and B be finite
+// and non-negative.
+func New(name string, cell Cell, atoms []Atom, symmetry []string, centering string) (*Crystal, error) {
+	if _, err := NewCell(cell.A, cell.B, cell.C, cell.Alpha, cell.Beta, cell.Gamma); err != nil {
+		return nil, fmt.Errorf("crystal %q: %w", name, err)
+	}
+	if len(atoms) == 0 {
+		return nil, fmt.Errorf("crystal %q: no atoms", name)
+	}
+	ops := []SymOp{Identity}
+	if len(symmetry) > 0 {
+		ops = ops[:0]
+		for i, s := range symmetry {
+			op, err := ParseSymOp(s)
+			if err != nil {
+				return nil, fmt.Errorf("crystal %q: symmetry[%d]: %w", name, i, err)
+			}
+			ops = append(ops, op)
+		}
+	}
+	trans, err := Centring(centering, cell)
+	if err != nil {
+		return nil, fmt.Errorf("crystal %q: %w", name, err)
+	}
+	var out []Atom
+	for i, at := range atoms {
+		at, err := checkAtom(at)
+		if err != nil {
+			return nil, fmt.Errorf("crystal %q: atoms[%d]: %w", name, i, err)
+		}
+		// Images of this atom, merged: each site keeps the mean of the
+		// images that fell on it, which moves a position given to a few
+		// decimals (0.3333) onto its special position (1/3).
+		var sites []Atom
+		var sum [][3]float64
+		var count []int
+		for _, op := range ops {
+			x := op.Apply(at.XYZ)
+			for _, t := range trans {
+				img := wrap([3]float64{x[0] + t[0], x[1] + t[1], x[2] + t[2]})
+				if k, d := nearSite(cell, sites, img); k >= 0 {
+					for j := range d {
+						sum[k][j] += d[j]
+					}
+					count[k]++
+					continue
+				}
+				a := at
+				a.XYZ = img
+				sites = append(sites, a)
+				sum = append(sum, [3]float64{})
+				count = append(count, 1)
+			}
+		}
+		for k := range sites {
+			var x [3]float64
+			for j := range x {
+				x[j] = sites[k].XYZ[j] + sum[k][j]/float64(count[k])
+			}
+			sites[k].XYZ = wrap(x)
+			out = append(out, sites[k])
+		}
+	}
+	return &Crystal{Name: name, Cell: cell, Atoms: out}, nil
+}
+
+func checkAtom(at Atom) (Atom, error) {
+	el, err := canonicalElement(at.Element)
+	if err != nil {
+		return Atom{}, err
+	}
+	at.Element = el
+	for i, x := range at.XYZ {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return Atom{}, fmt.Errorf("%s: xyz[%d] = %g is not finite", el, i, x)
+		}
+	}
+	if !(at.Occupancy > 0 && at.Occupancy <= 1) {
+		return Atom{}, fmt.Errorf("%s: occupancy %g must lie in (0, 1]", el, at.Occupancy)
+	}
+	if !(at.BIsoNm2 >= 0) || math.IsInf(at.BIsoNm2, 0) {
+		return Atom{}, fmt.Errorf("%s: Debye–Waller B = %g nm² must be finite and non-negative", el, at.BIsoNm2)
+	}
+	return at, nil
+}
+
+// wrap maps fractional coordinates into [0, 1), snapping values within 1e-9
+// of a cell face to 0 so that 0.9999999999 and 0 are one coordinate.
+func wrap(x [3]float64) [3]float64 {
+	for i := range x {
+		x[i] -= math.Floor(x[i])
+		if x[i] > 1-1e-9 {
+			x[i] = 0
+		}
+	}
+	return x
+}
+
+// nearSite returns the index of the site in sites within mergeNm of x, and the minimum-image offset x − site, or −1, nil.
+func nearSite(cell Cell, sites []Atom, x [3]float64) (int, []float64) {
+	for k, o := range sites {
+		d := make([]float64, 3)
+		for i := range d {
+			d[i] = x[i] - o.XYZ[i]
+			d[i] -= math.Round(d[i])
+		}
+		if r3.Norm(cell.Direction([3]float64{d[0], d[1], d[2]})) < mergeNm {
+			return k, d
+		}
+	}
+	return -1, nil
+}
+
+// WithElastic returns a copy of c carrying the elastic constants e.
+func (c *Crystal) WithElastic(e Elastic) (*Crystal, error) {
+	if err := e.Validate(); err != nil {
+		return nil, fmt.Errorf("crystal %q: elastic: %w", c.Name, err)
+	}
+	cp := *c
+	cp.Atoms = append([]Atom(nil), c.Atoms...)
+	cp.Elastic, cp.HasElastic = e, true
+	return &cp, nil
+}

@@ -1,0 +1,284 @@
+package crystal
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"unicode"
+)
+
+// Indices are Miller (three) or Miller–Bravais (four) indices as written,
+// with an optional leading factor: "1/3[1 1 -2 0]" is Factor 1/3,
+// V = {1, 1, -2, 0}, Bracket '['.
+type Indices struct {
+	Factor  float64   // 1 when absent
+	V       []float64 // 3 or 4 entries
+	Bracket rune      // '[' direction, '(' plane, '<' family of directions, '{' family of planes
+}
+
+// Scaled returns Factor·V.
+func (ix Indices) Scaled() []float64 {
+	out := make([]float64, len(ix.V))
+	for i, v := range ix.V {
+		out[i] = ix.Factor * v
+	}
+	return out
+}
+
+// ErrIndices is wrapped by every error of ParseIndices.
+var ErrIndices = errors.New("malformed indices")
+
+var closing = map[rune]rune{'[': ']', '(': ')', '<': '>', '{': '}'}
+
+// ParseIndices reads indices the way the trade writes them:
+//
+//	"[1 -1 0]", "[1,-1,0]", "(1 1 1)", "[1-10]" (compact: one digit per index,
+//	a minus sign belongs to the digit after it), "1/2[1 1 0]", "a/2[1 1 0]",
+//	"0.5[1 1 0]", "1/3[1 1 -2 0]", "<1 1 0>", "{1 1 1}".
+//
+// The unicode minus sign "−" is accepted. Three or four indices; decimals are
+// allowed inside spaced or comma-separated brackets.
+func ParseIndices(text string) (Indices, error) {
+	s := strings.TrimSpace(strings.ReplaceAll(text, "−", "-"))
+	fail := func(format string, args ...any) (Indices, error) {
+		return Indices{}, fmt.Errorf("%w %q: %s", ErrIndices, text, fmt.Sprintf(format, args...))
+	}
+	if s == "" {
+		return fail("empty")
+	}
+	open := strings.IndexAny(s, "[(<{")
+	if open < 0 {
+		return fail("no bracket: write [u v w] for a direction or (h k l) for a plane")
+	}
+	br := rune(s[open])
+	if !strings.HasSuffix(s, string(closing[br])) {
+		return fail("expected it to end with %q", string(closing[br]))
+	}
+	factor, err := parseFactor(strings.TrimSpace(s[:open]))
+	if err != nil {
+		return fail("%v", err)
+	}
+	inner := strings.TrimSpace(s[open+1 : len(s)-1])
+	if strings.ContainsAny(inner, "[]()<>{}") {
+		return fail("nested or extra brackets")
+	}
+	var v []float64
+	if strings.ContainsAny(inner, " \t,") {
+		for _, f := range strings.FieldsFunc(inner, func(r rune) bool { return r == ',' || unicode.IsSpace(r) }) {
+			x, err := strconv.ParseFloat(f, 64)
+			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+				return fail("index %q is not a number", f)
+			}
+			v = append(v, x)
+		}
+	} else {
+		// Compact form: every index is one digit, optionally preceded by '-'.
+		neg := false
+		for _, r := range inner {
+			switch {
+			case r == '-' && !neg:
+				neg = true
+			case r >= '0' && r <= '9':
+				x := float64(r - '0')
+				if neg {
+					x = -x
+				}
+				v = append(v, x)
+				neg = false
+			default:
+				return fail("unexpected %q in compact indices (use spaces between multi-digit or decimal indices)", string(r))
+			}
+		}
+		if neg {
+			return fail("trailing minus sign")
+		}
+	}
+	if len(v) != 3 && len(v) != 4 {
+		return fail("%d indices; want 3 (Miller) or 4 (Miller–Bravais)", len(v))
+	}
+	return Indices{Factor: factor, V: v, Bracket: br}, nil
+}
+
+// parseFactor reads "", "a", "1/2", "a/2", "0.5", "2/3", "a/3".
+func parseFactor(f string) (float64, error) {
+	if f == "" || f == "a" {
+		return 1, nil
+	}
+	num, den, hasSlash := strings.Cut(f, "/")
+	if num == "a" {
+		num = "1"
+	}
+	p, err := strconv.ParseFloat(strings.TrimSpace(num), 64)
+	if err != nil {
+		return 0, fmt.Errorf("factor %q is not a number or fraction", f)
+	}
+	q := 1.0
+	if hasSlash {
+		q, err = strconv.ParseFloat(strings.TrimSpace(den), 64)
+		if err != nil {
+			return 0, fmt.Errorf("factor %q is not a number or fraction", f)
+		}
+	}
+	r := p / q
+	if r == 0 || math.IsNaN(r) || math.IsInf(r, 0) {
+		return 0, fmt.Errorf("factor %q must be finite and non-zero", f)
+	}
+	return r, nil
+}
+
+// fourIndexTol is the tolerance on the redundant third index.
+const fourIndexTol = 1e-9
+
+// PlaneIndices converts (hkl) or Miller–Bravais (hkil) to (hkl). Four indices
+// need a hexagonal cell and i = −(h+k); the conversion drops i.
+func (c Cell) PlaneIndices(v []float64) ([3]float64, error) {
+	switch len(v) {
+	case 3:
+		return [3]float64{v[0], v[1], v[2]}, nil
+	case 4:
+		if !c.IsHexagonal() {
+			return [3]float64{}, fmt.Errorf("four-index plane (%s) needs a hexagonal cell (a = b, γ = 120°)", joinIdx(v))
+		}
+		if math.Abs(v[2]+v[0]+v[1]) > fourIndexTol {
+			return [3]float64{}, fmt.Errorf("four-index plane (%s): third index i = %g must equal −(h+k) = %g", joinIdx(v), v[2], -(v[0] + v[1]))
+		}
+		return [3]float64{v[0], v[1], v[3]}, nil
+	}
+	return [3]float64{}, fmt.Errorf("plane indices: %d given, want 3 or 4", len(v))
+}
+
+// DirectionIndices converts [uvw] or Miller–Bravais [uvtw] to three-index
+// [UVW]: U = u − t, V = v − t, W = w, which needs a hexagonal cell and
+// t = −(u+v).
+func (c Cell) DirectionIndices(v []float64) ([3]float64, error) {
+	switch len(v) {
+	case 3:
+		return [3]float64{v[0], v[1], v[2]}, nil
+	case 4:
+		if !c.IsHexagonal() {
+			return [3]float64{}, fmt.Errorf("four-index direction [%s] needs a hexagonal cell (a = b, γ = 120°)", joinIdx(v))
+		}
+		if math.Abs(v[2]+v[0]+v[1]) > fourIndexTol {
+			return [3]float64{}, fmt.Errorf("four-index direction [%s]: third index t = %g must equal −(u+v) = %g", joinIdx(v), v[2], -(v[0] + v[1]))
+		}
+		return [3]float64{v[0] - v[2], v[1] - v[2], v[3]}, nil
+	}
+	return [3]float64{}, fmt.Errorf("direction indices: %d given, want 3 or 4", len(v))
+}
+
+// FourIndexPlane returns (hkil), i = −(h+k), for a hexagonal cell.
+func (c Cell) FourIndexPlane(hkl [3]float64) ([4]float64, error) {
+	if !c.IsHexagonal() {
+		return [4]float64{}, errors.New("four-index planes need a hexagonal cell")
+	}
+	return [4]float64{hkl[0], hkl[1], -(hkl[0] + hkl[1]), hkl[2]}, nil
+}
+
+// FourIndexDirection returns [uvtw] for the three-index [UVW] of a hexagonal
+// cell: u = (2U − V)/3, v = (2V − U)/3, t = −(u+v), w = W, the inverse of
+// DirectionIndices.
+func (c Cell) FourIndexDirection(uvw [3]float64) ([4]float64, error) {
+	if !c.IsHexagonal() {
+		return [4]float64{}, errors.New("four-index directions need a hexagonal cell")
+	}
+	u := (2*uvw[0] - uvw[1]) / 3
+	v := (2*uvw[1] - uvw[0]) / 3
+	return [4]float64{u, v, -(u + v), uvw[2]}, nil
+}
+
+// Burgers parses a Burgers vector as the trade writes it ("1/2[1 1 0]",
+// "1/3[1 1 -2 0]", "[0 0 1]"), converts four indices on a hexagonal cell and
+// applies the factor: the result is fractional [uvw], b = u a + v b + w c.
+func (c Cell) Burgers(text string) ([3]float64, error) {
+	ix, err := ParseIndices(text)
+	if err != nil {
+		return [3]float64{}, fmt.Errorf("burgers vector: %w", err)
+	}
+	if ix.Bracket != '[' {
+		return [3]float64{}, fmt.Errorf("burgers vector %q: a Burgers vector is one direction [u v w], not %s", text, bracketName(ix.Bracket))
+	}
+	uvw, err := c.DirectionIndices(ix.V)
+	if err != nil {
+		return [3]float64{}, fmt.Errorf("burgers vector %q: %w", text, err)
+	}
+	for i := range uvw {
+		uvw[i] *= ix.Factor
+	}
+	if uvw == [3]float64{} {
+		return [3]float64{}, fmt.Errorf("burgers vector %q is zero", text)
+	}
+	return uvw, nil
+}
+
+func bracketName(b rune) string {
+	switch b {
+	case '(':
+		return "a plane (h k l)"
+	case '<':
+		return "a family <u v w>"
+	case '{':
+		return "a family of planes {h k l}"
+	}
+	return "a direction"
+}
+
+func joinIdx(v []float64) string {
+	parts := make([]string, len(v))
+	for i, x := range v {
+		parts[i] = strconv.FormatFloat(x, 'g', -1, 64)
+	}
+	return strings.Join(parts, " ")
+}
+
+// FormatDirection writes fractional [uvw] the way the trade does: four-index
+// on a hexagonal cell, with the smallest factor 1/n (n ≤ 12) that makes the
+// indices integers ("1/3[1 1 -2 0]", "1/2[1 1 0]", "[0 0 1]"); decimals when
+// no such n exists.
+func (c Cell) FormatDirection(uvw [3]float64) string {
+	if c.IsHexagonal() {
+		f, _ := c.FourIndexDirection(uvw)
+		return formatWithFactor(f[:], '[', ']')
+	}
+	return formatWithFactor(uvw[:], '[', ']')
+}
+
+// FormatPlane writes (hkl), or (hkil) on a hexagonal cell.
+func (c Cell) FormatPlane(hkl [3]float64) string {
+	if c.IsHexagonal() {
+		f, _ := c.FourIndexPlane(hkl)
+		return formatWithFactor(f[:], '(', ')')
+	}
+	return formatWithFactor(hkl[:], '(', ')')
+}
+
+func formatWithFactor(v []float64, open, cl rune) string {
+	const tol = 1e-6
+	for n := 1; n <= 12; n++ {
+		ints := make([]int, len(v))
+		ok := true
+		for i, x := range v {
+			y := x * float64(n)
+			r := math.Round(y)
+			if math.Abs(y-r) > tol {
+				ok = false
+				break
+			}
+			ints[i] = int(r)
+		}
+		if !ok {
+			continue
+		}
+		parts := make([]string, len(ints))
+		for i, k := range ints {
+			parts[i] = strconv.Itoa(k)
+		}
+		body := string(open) + strings.Join(parts, " ") + string(cl)
+		if n == 1 {
+			return body
+		}
+		return fmt.Sprintf("1/%d%s", n, body)
+	}
+	return string(open) + joinIdx(v) + string(cl)
+}

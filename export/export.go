@@ -1,0 +1,212 @@
+package export
+
+import (
+	"bufio"
+	"context"
+	"fmt"
+	"image"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"faultline/figure"
+	"faultline/scene"
+	"faultline/sim"
+)
+
+// Render simulates the setup's problem, applying the scene's blur.
+func Render(ctx context.Context, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
+	im, err := sim.Render(ctx, st.Problem, opt)
+	if err != nil {
+		return nil, err
+	}
+	if b := st.Scene.Image.BlurNm; b != nil {
+		sim.Blur(im, *b)
+	}
+	return im, nil
+}
+
+// Indices formats indices as the trade writes them: "2 0 0", "1 -1 0".
+func Indices(v []float64) string {
+	parts := make([]string, len(v))
+	for i, x := range v {
+		parts[i] = trimFloat(x)
+	}
+	return strings.Join(parts, " ")
+}
+
+func trimFloat(x float64) string {
+	if x == math.Trunc(x) && math.Abs(x) < 1e6 {
+		return fmt.Sprintf("%d", int64(x))
+	}
+	return fmt.Sprintf("%.4g", x)
+}
+
+// Caption returns the conditions of a render in the words of a figure
+// caption: g, B, the deviation, thickness, voltage and model, so a reader
+// can reproduce the image.
+func Caption(st *scene.Setup) figure.Caption {
+	sc := st.Scene
+	d := sc.Diffraction
+	dev := fmt.Sprintf("s = %.4f /nm (w = %.2f)", st.SPerNm, st.W)
+	if d.WeakBeam != nil {
+		dev = fmt.Sprintf("g(%sg): s = %.4f /nm (w = %.2f)", trimFloat(d.WeakBeam.N), st.SPerNm, st.W)
+	}
+	xi := fmt.Sprintf("ξg = %.1f nm", st.XiGNm)
+	if !st.XiGComputed {
+		xi += " (given)"
+	}
+	material := sc.Crystal.Material
+	if material == "" {
+		material = st.Crystal.Name
+	}
+	model := st.Model
+	if st.Model == "two-beam" {
+		model = fmt.Sprintf("two-beam, ξg/ξ'g = %g", st.Absorption)
+	}
+	lines := []string{
+		fmt.Sprintf("%s   B = [%s]   %s   t = %g nm   %g kV", material, Indices(d.Beam), dev, sc.Foil.ThicknessNm, sc.Microscope.VoltageKV),
+		fmt.Sprintf("%s   %s", xi, model),
+	}
+	return figure.Caption{G: "g = " + Indices(d.G), Lines: lines}
+}
+
+// Options choose the look of exported images.
+type Options struct {
+	// Mapping is the grey scale of bf.png and df.png.
+	Mapping figure.Mapping
+	// FigureMapping is the grey scale of the panels of the figure.
+	FigureMapping figure.Mapping
+	// Scale is the integer upscaling of figure pixels (0: automatic).
+	Scale int
+	// Caption draws the conditions under the figure.
+	Caption bool
+}
+
+// DefaultOptions are those of `faultline render`: bf.png and df.png use
+// the fixed mapping (grey level 255·I, white = the incident beam), so grey
+// levels are intensities and two renders compare by eye; the figure
+// stretches each panel's range over the grey scale, clipping 0.5 % of the
+// pixels at each end (figure.Mapping "auto"), which is how contrast is shown
+// in a paper; the caption says so.
+func DefaultOptions() Options {
+	return Options{FigureMapping: figure.Mapping{Mode: figure.ModeAuto, ClipPercent: 0.5}, Caption: true}
+}
+
+// Figure builds the labelled bright-field/dark-field pair.
+func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
+	bf, df, err := Grays(im, o.FigureMapping)
+	if err != nil {
+		return nil, err
+	}
+	px, err := figure.PixelSizeNm(im.Grid)
+	if err != nil {
+		return nil, err
+	}
+	c := Caption(st)
+	c.Lines = append(c.Lines, MappingNote(o.FigureMapping))
+	return figure.Pair(bf, df, c, figure.Layout{NmPerPx: px, Scale: o.Scale, Caption: o.Caption})
+}
+
+// MappingNote says in words how grey levels relate to intensity.
+func MappingNote(m figure.Mapping) string {
+	inv := ""
+	if m.Invert {
+		inv = ", inverted"
+	}
+	if m.Mode == figure.ModeAuto {
+		if m.ClipPercent > 0 {
+			return fmt.Sprintf("grey: each panel stretched to its range, %g %% clipped at each end%s", m.ClipPercent, inv)
+		}
+		return "grey: each panel stretched to its range" + inv
+	}
+	max := m.Max
+	if max == 0 {
+		max = 1
+	}
+	return fmt.Sprintf("grey: linear in intensity, white = %g of the incident beam%s", max, inv)
+}
+
+// Grays maps both beams to grey. In auto mode the dark field gets its own
+// range; in fixed mode both share the scale of the incident beam.
+func Grays(im *sim.Image, m figure.Mapping) (bf, df *image.Gray, err error) {
+	if bf, err = figure.BeamGray(im, 0, m); err != nil {
+		return nil, nil, err
+	}
+	if df, err = figure.BeamGray(im, 1, m); err != nil {
+		return nil, nil, err
+	}
+	return bf, df, nil
+}
+
+// TextKeys are the PNG text chunks written with every image.
+const (
+	KeyScene    = "faultline-scene"
+	KeySoftware = "Software"
+)
+
+// WriteAll writes bf.png, df.png, figure.png, bf.tiff and df.tiff into dir
+// (created if missing). sceneJSON is stored in a text chunk of every PNG so
+// the image carries what made it.
+func WriteAll(dir string, st *scene.Setup, im *sim.Image, sceneJSON []byte, o Options) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	text := map[string]string{KeyScene: string(sceneJSON), KeySoftware: "Faultline"}
+	bf, df, err := Grays(im, o.Mapping)
+	if err != nil {
+		return err
+	}
+	fig, err := Figure(st, im, o)
+	if err != nil {
+		return err
+	}
+	g := im.Grid
+	for _, w := range []func() error{
+		func() error { return figure.WritePNG(filepath.Join(dir, "bf.png"), bf, text) },
+		func() error { return figure.WritePNG(filepath.Join(dir, "df.png"), df, text) },
+		func() error { return figure.WritePNG(filepath.Join(dir, "figure.png"), fig, text) },
+		func() error { return figure.WriteFloatTIFF(filepath.Join(dir, "bf.tiff"), im.BF(), g.NX, g.NY) },
+		func() error { return figure.WriteFloatTIFF(filepath.Join(dir, "df.tiff"), im.DF(), g.NX, g.NY) },
+	} {
+		if err := w(); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// Row returns the index of the pixel row whose centre is nearest y (nm).
+func Row(g sim.Grid, yNm float64) (int, error) {
+	dy := g.HeightNm / float64(g.NY)
+	j := int(math.Floor(yNm/dy + float64(g.NY)/2))
+	if yNm < -g.HeightNm/2 || yNm > g.HeightNm/2 || math.IsNaN(yNm) {
+		return 0, fmt.Errorf("y = %g nm is outside the image (%g nm high, centred on 0)", yNm, g.HeightNm)
+	}
+	if j >= g.NY {
+		j = g.NY - 1
+	}
+	if j < 0 {
+		j = 0
+	}
+	return j, nil
+}
+
+// WriteProfile writes the row of pixels nearest y as CSV: header
+// x_nm,bf,df, one line per pixel column.
+func WriteProfile(w io.Writer, im *sim.Image, yNm float64) error {
+	g := im.Grid
+	j, err := Row(g, yNm)
+	if err != nil {
+		return err
+	}
+	bw := bufio.NewWriter(w)
+	fmt.Fprintln(bw, "x_nm,bf,df")
+	bf, df := im.BF(), im.DF()
+	for i := 0; i < g.NX; i++ {
+		fmt.Fprintf(bw, "%.6g,%.8g,%.8g\n", g.X(i), bf[j*g.NX+i], df[j*g.NX+i])
+	}
+	return bw.Flush()
+}

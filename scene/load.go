@@ -1,0 +1,210 @@
+package scene
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"reflect"
+	"sort"
+	"strings"
+
+	"faultline/internal/atomicfile"
+)
+
+// MaxFileBytes is the largest scene file Load reads (a scene is a few
+// kilobytes; anything far larger is not a scene).
+const MaxFileBytes = 16 << 20
+
+// Load reads and validates the scene file at path.
+func Load(path string) (*Scene, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, &FieldError{Msg: fmt.Sprintf("scene file %s: %v", path, unwrapPathErr(err)), Err: err}
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, MaxFileBytes+1))
+	if err != nil {
+		return nil, &FieldError{Msg: fmt.Sprintf("scene file %s: %v", path, err), Err: err}
+	}
+	if len(data) > MaxFileBytes {
+		return nil, fieldErr("", "scene file %s: larger than %d bytes", path, MaxFileBytes)
+	}
+	return Parse(data)
+}
+
+func unwrapPathErr(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// Parse decodes and validates a scene. Unknown fields, values of the wrong
+// type, trailing data and every invalid value are errors that name the
+// field.
+func Parse(data []byte) (*Scene, error) {
+	var generic any
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.UseNumber()
+	if err := dec.Decode(&generic); err != nil {
+		return nil, syntaxErr(data, err)
+	}
+	if dec.More() {
+		return nil, fieldErr("", "scene file: unexpected data after the closing brace (line %d)", lineOf(data, int(dec.InputOffset())))
+	}
+	if _, ok := generic.(map[string]any); !ok {
+		return nil, fieldErr("", "scene file: must be a JSON object")
+	}
+	if err := checkKeys(generic, reflect.TypeOf(Scene{}), ""); err != nil {
+		return nil, err
+	}
+	var sc Scene
+	strict := json.NewDecoder(bytes.NewReader(data))
+	strict.DisallowUnknownFields()
+	if err := strict.Decode(&sc); err != nil {
+		var te *json.UnmarshalTypeError
+		if errors.As(err, &te) {
+			path := te.Field
+			if path == "" {
+				path = "(top level)"
+			}
+			return nil, fieldErr(path, "is %s, want %s", te.Value, typeName(te.Type))
+		}
+		return nil, fieldErr("", "scene file: %v", err)
+	}
+	if err := sc.Validate(); err != nil {
+		return nil, err
+	}
+	return &sc, nil
+}
+
+func syntaxErr(data []byte, err error) error {
+	var se *json.SyntaxError
+	switch {
+	case errors.Is(err, io.EOF) && len(bytes.TrimSpace(data)) == 0:
+		return fieldErr("", "scene file: empty")
+	case errors.Is(err, io.ErrUnexpectedEOF):
+		return fieldErr("", "scene file: ends early at line %d (truncated?)", lineOf(data, len(data)))
+	case errors.As(err, &se):
+		return fieldErr("", "scene file: line %d: %v", lineOf(data, int(se.Offset)), se)
+	}
+	return fieldErr("", "scene file: %v", err)
+}
+
+func lineOf(data []byte, off int) int {
+	if off > len(data) {
+		off = len(data)
+	}
+	return bytes.Count(data[:off], []byte("\n")) + 1
+}
+
+func typeName(t reflect.Type) string {
+	switch t.Kind() {
+	case reflect.Float64, reflect.Float32:
+		return "a number"
+	case reflect.Int, reflect.Int64:
+		return "a whole number"
+	case reflect.String:
+		return "a string"
+	case reflect.Slice, reflect.Array:
+		return "a list"
+	case reflect.Struct, reflect.Map:
+		return "an object"
+	case reflect.Pointer:
+		return typeName(t.Elem())
+	}
+	return t.String()
+}
+
+// checkKeys walks the generic JSON value v alongside the Go type t and
+// reports the first object key that t has no field for, with its path.
+func checkKeys(v any, t reflect.Type, path string) error {
+	for t.Kind() == reflect.Pointer {
+		t = t.Elem()
+	}
+	switch t.Kind() {
+	case reflect.Struct:
+		obj, ok := v.(map[string]any)
+		if !ok {
+			return nil // a type mismatch; the strict decoder reports it
+		}
+		fields := map[string]reflect.Type{}
+		for i := 0; i < t.NumField(); i++ {
+			f := t.Field(i)
+			name, _, _ := strings.Cut(f.Tag.Get("json"), ",")
+			if name == "" || name == "-" {
+				continue
+			}
+			fields[name] = f.Type
+		}
+		keys := make([]string, 0, len(obj))
+		for k := range obj {
+			keys = append(keys, k)
+		}
+		sort.Strings(keys)
+		for _, k := range keys {
+			sub := join(path, k)
+			ft, ok := fields[k]
+			if !ok {
+				return fieldErr(sub, "unknown field (known here: %s)", known(fields))
+			}
+			if err := checkKeys(obj[k], ft, sub); err != nil {
+				return err
+			}
+		}
+	case reflect.Slice, reflect.Array:
+		arr, ok := v.([]any)
+		if !ok {
+			return nil
+		}
+		for i, e := range arr {
+			if err := checkKeys(e, t.Elem(), fmt.Sprintf("%s[%d]", path, i)); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+func join(path, k string) string {
+	if path == "" {
+		return k
+	}
+	return path + "." + k
+}
+
+func known(fields map[string]reflect.Type) string {
+	names := make([]string, 0, len(fields))
+	for k := range fields {
+		names = append(names, k)
+	}
+	sort.Strings(names)
+	return strings.Join(names, ", ")
+}
+
+// Marshal returns the scene as indented JSON, the form Save writes.
+func Marshal(sc *Scene) ([]byte, error) {
+	data, err := json.MarshalIndent(sc, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	return append(data, '\n'), nil
+}
+
+// Save writes the scene to path: to a temporary file in the same directory
+// first, then renamed over path, so a failure part way leaves the previous
+// file as it was.
+func Save(path string, sc *Scene) error {
+	if err := sc.Validate(); err != nil {
+		return err
+	}
+	data, err := Marshal(sc)
+	if err != nil {
+		return err
+	}
+	return atomicfile.WriteFile(path, data)
+}

@@ -1,0 +1,354 @@
+package scene
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"faultline/sim"
+)
+
+// Models lists the values of diffraction.model.
+var Models = []string{"kinematical", "two-beam", "systematic-row"}
+
+// DefectTypes lists the values of defects[].type.
+var DefectTypes = []string{"dislocation", "dissociated", "fault", "inclusion", "loop", "cavity"}
+
+// Defaults of optional values (documented in the README's scene section).
+const (
+	// DefaultModel is used when diffraction.model is left out.
+	DefaultModel = "two-beam"
+	// DefaultAbsorptionRatio is ξ_g/ξ'_g when absorption_ratio is left
+	// out: 0.1, common practice for two-beam images of metals (Hirsch et
+	// al. 1965 use values of 0.05–0.1).
+	DefaultAbsorptionRatio = 0.1
+)
+
+// Validate checks everything that can be checked without the crystal:
+// required fields, ranges, one-of choices and the fields that belong to
+// each defect type. Build checks the rest (indices against the cell, g
+// perpendicular to the beam, allowed reflections).
+func (sc *Scene) Validate() error {
+	if sc.Version != Version {
+		if sc.Version == 0 {
+			return fieldErr("version", "missing; this program reads version %d", Version)
+		}
+		return fieldErr("version", "%d is not supported; this program reads version %d", sc.Version, Version)
+	}
+	if err := sc.Crystal.validate("crystal"); err != nil {
+		return err
+	}
+	if v := sc.Microscope.VoltageKV; !(v > 0) || v > 5000 {
+		return fieldErr("microscope.voltage_kv", "%g kV: must be between 0 and 5000", v)
+	}
+	if err := sc.Diffraction.validate("diffraction"); err != nil {
+		return err
+	}
+	if err := positive("foil.thickness_nm", sc.Foil.ThicknessNm); err != nil {
+		return err
+	}
+	if len(sc.Foil.Normal) > 0 {
+		if err := indices("foil.normal", sc.Foil.Normal); err != nil {
+			return err
+		}
+	}
+	for i := range sc.Defects {
+		if err := sc.Defects[i].validate(fmt.Sprintf("defects[%d]", i)); err != nil {
+			return err
+		}
+	}
+	return sc.Image.validate("image")
+}
+
+func (c *Crystal) validate(path string) error {
+	n := 0
+	for _, set := range []bool{c.Material != "", c.CIF != "", c.Cell != nil} {
+		if set {
+			n++
+		}
+	}
+	if n != 1 {
+		return fieldErr(path, "give exactly one of material, cif or cell (found %d)", n)
+	}
+	if c.Cell == nil && (len(c.Atoms) > 0 || len(c.Symmetry) > 0 || c.Centering != "") {
+		return fieldErr(path, "atoms, symmetry and centering go with cell")
+	}
+	if c.Cell != nil {
+		if len(c.Atoms) == 0 {
+			return fieldErr(path+".atoms", "a cell needs at least one atom")
+		}
+		if len(c.Symmetry) > 0 && c.Centering != "" {
+			return fieldErr(path, "give symmetry or centering, not both")
+		}
+		for i, a := range c.Atoms {
+			p := fmt.Sprintf("%s.atoms[%d]", path, i)
+			if a.Element == "" {
+				return fieldErr(p+".element", "missing")
+			}
+			if a.Occupancy != nil && !(*a.Occupancy > 0 && *a.Occupancy <= 1) {
+				return fieldErr(p+".occupancy", "%g: must be in (0, 1]", *a.Occupancy)
+			}
+			if a.BIsoNm2 != nil && !(*a.BIsoNm2 >= 0) {
+				return fieldErr(p+".b_iso_nm2", "%g: must not be negative", *a.BIsoNm2)
+			}
+		}
+	}
+	if e := c.Elastic; e != nil {
+		iso := e.ShearGPa != nil || e.Poisson != nil
+		aniso := e.C11 != nil || e.C12 != nil || e.C13 != nil || e.C33 != nil || e.C44 != nil || e.Cij != nil
+		switch {
+		case iso && aniso:
+			return fieldErr(path+".elastic", "give either stiffness constants or {shear_gpa, poisson}, not both")
+		case iso:
+			if e.ShearGPa == nil || e.Poisson == nil {
+				return fieldErr(path+".elastic", "an isotropic medium needs both shear_gpa and poisson")
+			}
+			if !(*e.ShearGPa > 0) {
+				return fieldErr(path+".elastic.shear_gpa", "%g GPa: must be positive", *e.ShearGPa)
+			}
+			if !(*e.Poisson > -1 && *e.Poisson < 0.5) {
+				return fieldErr(path+".elastic.poisson", "%g: must be between −1 and 0.5", *e.Poisson)
+			}
+		case !aniso:
+			return fieldErr(path+".elastic", "empty: give {c11, c12, c44}, {c11, c12, c13, c33, c44}, {cij} or {shear_gpa, poisson}")
+		}
+	}
+	return nil
+}
+
+func (d *Diffraction) validate(path string) error {
+	if len(d.G) != 3 && len(d.G) != 4 {
+		return fieldErr(path+".g", "%v: needs 3 indices (hkl) or 4 (hkil)", d.G)
+	}
+	if err := indices(path+".g", d.G); err != nil {
+		return err
+	}
+	if allZero(d.G) {
+		return fieldErr(path+".g", "is the zero vector")
+	}
+	if err := indices(path+".beam", d.Beam); err != nil {
+		return err
+	}
+	var set []string
+	if d.SPerNm != nil {
+		set = append(set, "s_per_nm")
+	}
+	if d.W != nil {
+		set = append(set, "w")
+	}
+	if d.WeakBeam != nil {
+		set = append(set, "weak_beam")
+	}
+	if d.Kikuchi != nil {
+		set = append(set, "deviation_from_kikuchi")
+	}
+	if len(set) != 1 {
+		if len(set) == 0 {
+			return fieldErr(path, "give the deviation: one of s_per_nm, w, weak_beam or deviation_from_kikuchi")
+		}
+		return fieldErr(path, "give only one deviation setting, found %s", strings.Join(set, " and "))
+	}
+	if d.SPerNm != nil && !finite(*d.SPerNm) {
+		return fieldErr(path+".s_per_nm", "must be a finite number")
+	}
+	if d.W != nil && !finite(*d.W) {
+		return fieldErr(path+".w", "must be a finite number")
+	}
+	if d.WeakBeam != nil && !(d.WeakBeam.N > 1 && d.WeakBeam.N <= 20) {
+		return fieldErr(path+".weak_beam.n", "%g: the g(ng) condition needs n between 1 and 20 (n = 1 is the Bragg condition: use s_per_nm 0)", d.WeakBeam.N)
+	}
+	if k := d.Kikuchi; k != nil {
+		if !(k.Spacing > 0) {
+			return fieldErr(path+".deviation_from_kikuchi.spacing", "%g: must be positive", k.Spacing)
+		}
+		if !finite(k.Offset) {
+			return fieldErr(path+".deviation_from_kikuchi.offset", "must be a finite number")
+		}
+	}
+	switch d.Model {
+	case "", "kinematical", "two-beam":
+		if d.Beams != 0 {
+			return fieldErr(path+".beams", "applies only to the systematic-row model")
+		}
+	case "systematic-row":
+		if d.Beams < 3 || d.Beams%2 == 0 || d.Beams > 31 {
+			return fieldErr(path+".beams", "%d: the systematic row needs an odd number of beams from 3 to 31", d.Beams)
+		}
+	default:
+		return fieldErr(path+".model", "%q is not a model; use one of %s", d.Model, strings.Join(Models, ", "))
+	}
+	if d.ExtinctionNm != nil && !(*d.ExtinctionNm > 0 && finite(*d.ExtinctionNm)) {
+		return fieldErr(path+".extinction_nm", "%g nm: must be positive", *d.ExtinctionNm)
+	}
+	if d.AbsorptionRatio != nil && !(*d.AbsorptionRatio >= 0 && *d.AbsorptionRatio < 1) {
+		return fieldErr(path+".absorption_ratio", "%g: must be in [0, 1) (ξ_g/ξ'_g; 0 turns absorption off)", *d.AbsorptionRatio)
+	}
+	return nil
+}
+
+// fieldsOf lists which optional fields of a defect are set.
+func (d *Defect) fieldsOf() map[string]bool {
+	return map[string]bool{
+		"b": d.B != "", "line": d.Line != nil, "at_nm": d.AtNm != nil, "plane": d.Plane != nil,
+		"partials": d.Partials != nil, "separation_nm": d.SeparationNm != nil, "sfe_mj_m2": d.SFEmJm2 != nil,
+		"shift": d.Shift != "", "radius_nm": d.RadiusNm != nil, "strain": d.Strain != nil,
+		"misfit": d.Misfit != nil, "normal": d.Normal != nil, "elasticity": d.Elasticity != "",
+	}
+}
+
+// defectFields lists the fields of each defect type: required, then
+// optional.
+var defectFields = map[string][2][]string{
+	"dislocation": {{"b", "line", "at_nm"}, {"elasticity"}},
+	"dissociated": {{"b", "line", "at_nm", "plane", "partials"}, {"separation_nm", "sfe_mj_m2", "elasticity"}},
+	"fault":       {{"plane", "shift", "at_nm"}, nil},
+	"inclusion":   {{"at_nm", "radius_nm"}, {"strain", "misfit"}},
+	"loop":        {{"at_nm", "normal", "b", "radius_nm"}, nil},
+	"cavity":      {{"at_nm", "radius_nm"}, nil},
+}
+
+func (d *Defect) validate(path string) error {
+	spec, ok := defectFields[d.Type]
+	if !ok {
+		if d.Type == "" {
+			return fieldErr(path+".type", "missing; use one of %s", strings.Join(DefectTypes, ", "))
+		}
+		return fieldErr(path+".type", "%q is not a defect type; use one of %s", d.Type, strings.Join(DefectTypes, ", "))
+	}
+	set := d.fieldsOf()
+	allowed := map[string]bool{}
+	for _, f := range spec[0] {
+		allowed[f] = true
+		if !set[f] {
+			return fieldErr(path+"."+f, "missing (a %s needs %s)", d.Type, strings.Join(spec[0], ", "))
+		}
+	}
+	for _, f := range spec[1] {
+		allowed[f] = true
+	}
+	for _, f := range []string{"b", "line", "at_nm", "plane", "partials", "separation_nm", "sfe_mj_m2", "shift", "radius_nm", "strain", "misfit", "normal", "elasticity"} {
+		if set[f] && !allowed[f] {
+			return fieldErr(path+"."+f, "does not apply to a %s", d.Type)
+		}
+	}
+	if d.AtNm != nil && (len(d.AtNm) != 3 || !allFinite(d.AtNm)) {
+		return fieldErr(path+".at_nm", "%v: needs three finite coordinates x, y, z in nm", d.AtNm)
+	}
+	for _, f := range []struct {
+		name string
+		v    []float64
+	}{{"line", d.Line}, {"plane", d.Plane}, {"normal", d.Normal}} {
+		if f.v == nil {
+			continue
+		}
+		if err := indices(path+"."+f.name, f.v); err != nil {
+			return err
+		}
+		if allZero(f.v) {
+			return fieldErr(path+"."+f.name, "is the zero vector")
+		}
+	}
+	if d.RadiusNm != nil && !(*d.RadiusNm > 0 && finite(*d.RadiusNm)) {
+		return fieldErr(path+".radius_nm", "%g nm: must be positive", *d.RadiusNm)
+	}
+	switch d.Type {
+	case "inclusion":
+		if (d.Strain == nil) == (d.Misfit == nil) {
+			return fieldErr(path, "an inclusion needs exactly one of strain or misfit")
+		}
+		for name, v := range map[string]*float64{"strain": d.Strain, "misfit": d.Misfit} {
+			if v != nil && !(math.Abs(*v) < 0.5) {
+				return fieldErr(path+"."+name, "%g: must be a small fraction (|value| < 0.5)", *v)
+			}
+		}
+	case "dissociated":
+		if len(d.Partials) != 2 {
+			return fieldErr(path+".partials", "needs two Burgers vectors, found %d", len(d.Partials))
+		}
+		if (d.SeparationNm == nil) == (d.SFEmJm2 == nil) {
+			return fieldErr(path, "a dissociated dislocation needs exactly one of separation_nm or sfe_mj_m2")
+		}
+		if d.SeparationNm != nil && !(*d.SeparationNm > 0) {
+			return fieldErr(path+".separation_nm", "%g nm: must be positive", *d.SeparationNm)
+		}
+		if d.SFEmJm2 != nil && !(*d.SFEmJm2 > 0) {
+			return fieldErr(path+".sfe_mj_m2", "%g mJ/m²: must be positive", *d.SFEmJm2)
+		}
+	}
+	switch d.Elasticity {
+	case "", "isotropic", "anisotropic":
+	default:
+		return fieldErr(path+".elasticity", "%q: use isotropic or anisotropic", d.Elasticity)
+	}
+	return nil
+}
+
+func (im *Image) validate(path string) error {
+	if err := positive(path+".width_nm", im.WidthNm); err != nil {
+		return err
+	}
+	if err := positive(path+".height_nm", im.HeightNm); err != nil {
+		return err
+	}
+	if len(im.Pixels) != 2 {
+		return fieldErr(path+".pixels", "%v: needs two numbers [nx, ny]", im.Pixels)
+	}
+	nx, ny := im.Pixels[0], im.Pixels[1]
+	if nx <= 0 || ny <= 0 {
+		return fieldErr(path+".pixels", "%v: both must be positive", im.Pixels)
+	}
+	if nx > sim.MaxPixels || ny > sim.MaxPixels || nx*ny > sim.MaxPixels {
+		return fieldErr(path+".pixels", "%v: more than %d columns in all (4096 × 4096), the limit that keeps a render in memory", im.Pixels, sim.MaxPixels)
+	}
+	px, py := im.WidthNm/float64(nx), im.HeightNm/float64(ny)
+	if math.Abs(px-py) > 1e-6*math.Max(px, py) {
+		return fieldErr(path+".pixels", "%v over %g × %g nm gives pixels %.4g nm wide and %.4g nm high; pixels must be square", im.Pixels, im.WidthNm, im.HeightNm, px, py)
+	}
+	if im.BlurNm != nil && !(*im.BlurNm >= 0 && finite(*im.BlurNm)) {
+		return fieldErr(path+".blur_nm", "%g nm: must not be negative", *im.BlurNm)
+	}
+	return nil
+}
+
+func positive(path string, v float64) error {
+	if !(v > 0) || math.IsInf(v, 0) {
+		if v == 0 {
+			return fieldErr(path, "missing or zero; must be positive")
+		}
+		return fieldErr(path, "%g: must be positive", v)
+	}
+	return nil
+}
+
+func indices(path string, v []float64) error {
+	if len(v) != 3 && len(v) != 4 {
+		return fieldErr(path, "%v: needs 3 indices, or 4 for a hexagonal cell", v)
+	}
+	if !allFinite(v) {
+		return fieldErr(path, "%v: indices must be finite numbers", v)
+	}
+	if allZero(v) {
+		return fieldErr(path, "is the zero vector")
+	}
+	return nil
+}
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+func allFinite(v []float64) bool {
+	for _, x := range v {
+		if !finite(x) {
+			return false
+		}
+	}
+	return true
+}
+
+func allZero(v []float64) bool {
+	for _, x := range v {
+		if x != 0 {
+			return false
+		}
+	}
+	return true
+}
