@@ -20,6 +20,30 @@
 // V = v − t, W = w and t = −(u+v) (Frank 1965, Acta Cryst. 18, 862); and
 // back by u = (2U − V)/3, v = (2V − U)/3.
 //
+// # Indices as written
+//
+// ParseIndices reads "[1 -1 0]", "[1-10]" (one digit per index), "(1 1 1)",
+// "1/2[1 1 0]", "a/2[1 1 0]", "1/3[1 1 -2 0]", "<1 1 0>", "{1 1 1}", with
+// commas or spaces; Cell.Burgers turns such text into fractional [uvw], and
+// Cell.FormatDirection / FormatPlane write vectors back the same way (four
+// indices on a hexagonal cell).
+//
+// # Atoms, symmetry and CIF
+//
+// New expands an asymmetric unit by "x,y,z"-style operators (International
+// Tables Vol. A notation) and/or the translations of a centring letter,
+// wraps positions into the cell and merges the images of an atom closer
+// than 0.01 nm at their mean position. ParseCIF and LoadCIF read the cell,
+// operators and atom sites of a CIF 1.1 data block (Hall, Allen & Brown
+// 1991, Acta Cryst. A47, 655; IUCr CIF 1.1 syntax specification), with
+// U_eq from anisotropic parameters by Fischer & Tillmanns (1988, Acta
+// Cryst. C44, 775); errors carry the line number.
+//
+// # Zones
+//
+// Zone lists the g of a zone [uvw] by the Weiss zone law h u + k v + l w = 0
+// up to a |g| limit, flagging the kinematically forbidden ones.
+//
 // # Electron wavelength
 //
 //	λ = h / sqrt(2 m0 e E (1 + eE/(2 m0 c²))),  γ = 1 + eE/(m0 c²)

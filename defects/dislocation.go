@@ -98,6 +98,15 @@ func (d *Dislocation) Line() r3.Vec { return d.u }
 // Anisotropic reports whether the field is Stroh's anisotropic solution.
 func (d *Dislocation) Anisotropic() bool { return d.stroh != nil }
 
+// Elasticity describes the solution in use, for reports: "isotropic",
+// "anisotropic (Stroh, p = ...)" or the degenerate-sextic rule.
+func (d *Dislocation) Elasticity() string {
+	if d.stroh != nil {
+		return d.stroh.String()
+	}
+	return "isotropic"
+}
+
 // R returns the displacement (nm) at p (nm), both in the image frame.
 func (d *Dislocation) R(p r3.Vec) r3.Vec {
 	q := r3.Sub(p, d.at)

@@ -23,34 +23,39 @@ const loopSagittaNm = 0.005
 // R then jumps across the loop's disc by R(n̂ side) − R(other side) = −b:
 // b·n̂ < 0 is an interstitial (extra-plane) loop, b·n̂ > 0 a vacancy loop.
 //
-// Burgers' formula (Burgers 1939, Proc. Kon. Ned. Akad. Wet. 42, 293;
-// Hirth & Lothe 1982, eq. 4-??; de Wit 1960): with R = |r − r'|, r' on the
-// loop C (origin at the loop centre), Ω the solid angle the loop subtends
-// at r,
+// Burgers' formula (Burgers 1939, Proc. Kon. Ned. Akad. Wet. 42, 293 and
+// 378; Hirth & Lothe 1982, §4-4): with R = |r − r'|, r' on the loop C taken
+// in its line sense, and Ω the solid angle the loop subtends at r (positive
+// where the loop is seen running anticlockwise, so Ω jumps by +4π crossing
+// the disc along n̂),
 //
 //	u(r) = −b Ω/4π − (1/4π) ∮_C (b × dl')/R
-//	       + 1/(8π(1−ν)) ∇ ∮_C [(b × r')·dl']/R.
+//	       + 1/(8π(1−ν)) ∇ ∮_C [(b × (r' − r))·dl']/R.
 //
-// Along a straight side from A to B (unit t, r' = A + s t) (b × r')·t is the
-// constant (b × A)·t, and the side integrals are closed forms:
-// ∫ ds/R = ln((R_B − e_B)/(R_A − e_A)) and
-// ∇∫ ds/R = −∫ (r − r')/R³ ds = −[t (1/R_B − 1/R_A) + ρ (e_A/R_A − e_B/R_B)/ρ²],
-// e = t·(r − vertex), ρ = the part of r − A perpendicular to t, both
-// evaluated in forms free of cancellation. Ω is summed over the fan of
-// triangles (centre, V_k, V_k+1) by Van Oosterom & Strackee's formula (IEEE
-// Trans. Biomed. Eng. 30 (1983) 125):
-// tan(Ω/2) = r₀·(r₁×r₂) / (r₀r₁r₂ + (r₀·r₁)r₂ + (r₀·r₂)r₁ + (r₁·r₂)r₀).
+// The gradient expands to ∮ (b × dl')/R + ∮ [(b × (r' − r))·dl'] (r' − r)/R³.
+// Along a straight side from A to B (unit t, r' = A + s t), (b × (r' − r))·t
+// is the constant (b × (A − r))·t and the side integrals are closed forms:
+//
+//	∫ ds/R = ln((R_B − e_B)/(R_A − e_A)),
+//	∫ (r − r')/R³ ds = t (1/R_B − 1/R_A) + ρ (e_A/R_A − e_B/R_B)/ρ²,
+//
+// e = t·(r − vertex), ρ the part of r − A perpendicular to t; both are
+// evaluated in forms free of cancellation off the side's own span. Ω is
+// summed over the fan of triangles (centre, V_k, V_k+1) by Van Oosterom &
+// Strackee's formula (IEEE Trans. Biomed. Eng. 30 (1983) 125),
+// tan(Ω/2) = r₀·(r₁×r₂) / (r₀r₁r₂ + (r₀·r₁)r₂ + (r₀·r₂)r₁ + (r₁·r₂)r₀)
+// with the sign turned to the convention above. The sign of every term is
+// tested: the Burgers circuit, the jump across the disc, equilibrium, and
+// the match to a straight dislocation near the line of a large loop.
 type Loop struct {
 	c, n, b  r3.Vec
 	a1, a2   r3.Vec // in-plane axes, a1 × a2 = n
 	radius   float64
 	verts    []r3.Vec // polygon, relative to c, anticlockwise about n
 	tang     []r3.Vec // unit side directions
-	lens     []float64
-	bxt      []r3.Vec  // b × t per side
-	bxat     []float64 // (b × A)·t per side
-	k1, k2   float64   // 1/4π, 1/(8π(1−ν))
-	sectorNm float64   // apothem of the polygon
+	bxt      []r3.Vec // b × t per side
+	k1, k2   float64  // 1/4π, 1/(8π(1−ν))
+	sectorNm float64  // apothem of the polygon
 }
 
 // NewLoop returns the circular loop of radius radiusNm centred on at (nm)
@@ -96,9 +101,7 @@ func NewLoop(at, normal, b r3.Vec, radiusNm float64, m Medium) (*Loop, error) {
 		d := r3.Sub(B, A)
 		t := r3.Unit(d)
 		l.tang = append(l.tang, t)
-		l.lens = append(l.lens, r3.Norm(d))
 		l.bxt = append(l.bxt, r3.Cross(b, t))
-		l.bxat = append(l.bxat, r3.Dot(r3.Cross(b, A), t))
 	}
 	return l, nil
 }
@@ -114,17 +117,18 @@ func (l *Loop) R(p r3.Vec) r3.Vec {
 	return r3.Add(u, r3.Scale(l.k2, gradInt))
 }
 
-// parts returns Ω, Σ (b×t) ∫ds/R and −Σ c_k ∫(r − r')/R³ ds.
+// parts returns Ω, Σ_k (b×t_k) ∫ds/R and Σ_k c_k ∫(r' − r)/R³ ds with
+// c_k = (b × (A_k − r))·t_k.
 func (l *Loop) parts(p r3.Vec) (omega float64, lineInt, gradInt r3.Vec) {
 	r := r3.Sub(p, l.c)
 	r0 := r3.Scale(-1, r)
-	n0 := r3.Norm(r0)
+	n0 := math.Sqrt(r3.Norm2(r0))
 	nv := len(l.verts)
 	dA := r3.Sub(r, l.verts[0])
-	RA := r3.Norm(dA)
+	RA := math.Sqrt(r3.Norm2(dA))
 	for k := range nv {
 		dB := r3.Sub(r, l.verts[(k+1)%nv])
-		RB := r3.Norm(dB)
+		RB := math.Sqrt(r3.Norm2(dB))
 		t := l.tang[k]
 		// Solid angle of triangle (centre, V_k, V_k+1) seen from p.
 		r1, r2 := r3.Scale(-1, dA), r3.Scale(-1, dB)

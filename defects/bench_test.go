@@ -1,0 +1,52 @@
+package defects
+
+import (
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+var sink r3.Vec
+
+func benchField(b *testing.B, f Field) {
+	p := r3.Vec{X: 3.1, Y: -2.2, Z: 37}
+	b.ResetTimer()
+	for i := 0; b.Loop(); i++ {
+		p.Z = 37 + float64(i%100)*0.5
+		sink = f.R(p)
+	}
+}
+
+func BenchmarkDislocationIsotropic(b *testing.B) {
+	d, _ := NewDislocation(r3.Vec{X: 0.18, Y: 0.18}, r3.Vec{X: 1, Y: -1, Z: 0.5}, r3.Vec{Z: 50}, cuIso, false)
+	benchField(b, d)
+}
+
+func BenchmarkDislocationAnisotropic(b *testing.B) {
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	d, _ := NewDislocation(r3.Vec{X: 0.18, Y: 0.18}, r3.Vec{X: 1, Y: -1, Z: 0.5}, r3.Vec{Z: 50}, cuMedium(c), true)
+	benchField(b, d)
+}
+
+func BenchmarkDissociatedAnisotropic(b *testing.B) {
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	d, _ := NewDissociated(bFull, bLead, bTrail, lineAt(0.5), r3.Vec{Z: 50}, n111, 3, cuMedium(c), true)
+	benchField(b, d)
+}
+
+func BenchmarkLoopR10nm(b *testing.B) {
+	l, _ := NewLoop(r3.Vec{Z: 50}, r3.Vec{X: 1, Y: 1, Z: 1}, r3.Vec{X: 0.18, Y: 0.18}, 10, cuIso)
+	benchField(b, l)
+}
+
+func BenchmarkLoopR50nm(b *testing.B) {
+	l, _ := NewLoop(r3.Vec{Z: 50}, r3.Vec{X: 1, Y: 1, Z: 1}, r3.Vec{X: 0.18, Y: 0.18}, 50, cuIso)
+	benchField(b, l)
+}
+
+func BenchmarkNewDislocationAnisotropic(b *testing.B) {
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	for b.Loop() {
+		_, _ = NewDislocation(r3.Vec{X: 0.18, Y: 0.18}, r3.Vec{X: 1, Y: -1, Z: 0.5}, r3.Vec{Z: 50}, cuMedium(c), true)
+	}
+}
