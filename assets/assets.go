@@ -11,3 +11,9 @@ import _ "embed"
 //
 //go:embed demo.json
 var DemoScene []byte
+
+// Icon is the program's icon: a dark-field image of a stacking fault and a
+// small precipitate, simulated by Faultline itself.
+//
+//go:embed icon.png
+var Icon []byte

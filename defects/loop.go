@@ -12,11 +12,15 @@ import (
 const loopSagittaNm = 0.005
 
 // Loop is a planar circular dislocation loop (prismatic, shear or mixed) in
-// an isotropic medium, represented by a regular polygon of N sides whose
-// area equals the circle's and which departs from the circle by at most
-// 0.005 nm radially, N = max(24, ⌈π √(r/(3·0.005 nm))⌉). At a distance d
-// from the loop line the displacement then differs from the circular
-// loop's by about |b|·0.005 nm/d or less.
+// an isotropic medium, represented by regular polygons whose area equals
+// the circle's. The finest has N = max(24, ⌈π √(r/(3·0.005 nm))⌉) sides
+// and departs from the circle by about 0.005 nm; coarser ones halve N
+// down to 24. A point at distance d from the circle uses the coarsest
+// polygon whose radial departure (sagitta) is at most max(0.005 nm, d/100).
+// Moving a line element by δ changes the field at distance d by about
+// |b|δ/(2πd), so the polygon error is below ~0.002|b| wherever d ≥ 0.5 nm
+// (and the steps where the choice of polygon changes are of that size:
+// a phase of at most ~0.01 g·b rad, far below what an image shows).
 //
 // The line sense runs right-handedly about the normal n̂ (anticlockwise
 // seen from the side n̂ points to). With the package's Burgers convention,
@@ -48,14 +52,20 @@ const loopSagittaNm = 0.005
 // tested: the Burgers circuit, the jump across the disc, equilibrium, and
 // the match to a straight dislocation near the line of a large loop.
 type Loop struct {
-	c, n, b  r3.Vec
-	a1, a2   r3.Vec // in-plane axes, a1 × a2 = n
-	radius   float64
-	verts    []r3.Vec // polygon, relative to c, anticlockwise about n
-	tang     []r3.Vec // unit side directions
-	bxt      []r3.Vec // b × t per side
-	k1, k2   float64  // 1/4π, 1/(8π(1−ν))
-	sectorNm float64  // apothem of the polygon
+	c, n, b r3.Vec
+	a1, a2  r3.Vec // in-plane axes, a1 × a2 = n
+	radius  float64
+	levels  []loopPolygon // finest first
+	k1, k2  float64       // 1/4π, 1/(8π(1−ν))
+}
+
+// loopPolygon is one equal-area polygon standing for the circle.
+type loopPolygon struct {
+	verts   []r3.Vec // relative to the centre, anticlockwise about n
+	tang    []r3.Vec // unit side directions
+	bxt     []r3.Vec // b × t per side
+	apothem float64
+	sagitta float64 // largest radial departure from the circle, nm
 }
 
 // NewLoop returns the circular loop of radius radiusNm centred on at (nm)
@@ -79,35 +89,47 @@ func NewLoop(at, normal, b r3.Vec, radiusNm float64, m Medium) (*Loop, error) {
 	}
 	n := r3.Unit(normal)
 	a1 := perpendicularUnit(n, r3.Vec{X: 1}, r3.Vec{Y: 1})
-	a2 := r3.Cross(n, a1)
+	l := &Loop{c: at, n: n, b: b, a1: a1, a2: r3.Cross(n, a1), radius: radiusNm,
+		k1: 1 / (4 * math.Pi), k2: 1 / (8 * math.Pi * (1 - m.Poisson))}
 	sides := int(math.Ceil(math.Pi * math.Sqrt(radiusNm/(3*loopSagittaNm))))
-	if sides < 24 {
-		sides = 24
-	}
 	if sides > 1<<16 {
 		return nil, inputErr("radius_nm", fmt.Sprintf("loop radius %g nm is too large (more than 65536 polygon sides)", radiusNm))
 	}
-	// Equal-area polygon: (N/2) ρ² sin(2π/N) = π r².
-	rho := radiusNm * math.Sqrt(2*math.Pi/(float64(sides)*math.Sin(2*math.Pi/float64(sides))))
-	l := &Loop{c: at, n: n, b: b, a1: a1, a2: a2, radius: radiusNm,
-		k1: 1 / (4 * math.Pi), k2: 1 / (8 * math.Pi * (1 - m.Poisson)),
-		sectorNm: rho * math.Cos(math.Pi/float64(sides))}
-	for k := range sides {
-		phi := 2 * math.Pi * float64(k) / float64(sides)
-		l.verts = append(l.verts, r3.Add(r3.Scale(rho*math.Cos(phi), a1), r3.Scale(rho*math.Sin(phi), a2)))
-	}
-	for k := range sides {
-		A, B := l.verts[k], l.verts[(k+1)%sides]
-		d := r3.Sub(B, A)
-		t := r3.Unit(d)
-		l.tang = append(l.tang, t)
-		l.bxt = append(l.bxt, r3.Cross(b, t))
+	for {
+		sides = max(sides, loopMinSides)
+		l.levels = append(l.levels, l.polygon(sides))
+		if sides == loopMinSides {
+			break
+		}
+		sides = (sides + 1) / 2
 	}
 	return l, nil
 }
 
-// Sides returns the number of sides of the loop's polygon.
-func (l *Loop) Sides() int { return len(l.verts) }
+// loopMinSides is the fewest sides a loop's polygon has.
+const loopMinSides = 24
+
+// polygon builds the equal-area regular polygon of the given number of
+// sides: (N/2) ρ² sin(2π/N) = π r².
+func (l *Loop) polygon(sides int) loopPolygon {
+	N := float64(sides)
+	rho := l.radius * math.Sqrt(2*math.Pi/(N*math.Sin(2*math.Pi/N)))
+	pg := loopPolygon{apothem: rho * math.Cos(math.Pi/N)}
+	pg.sagitta = math.Max(rho-l.radius, l.radius-pg.apothem)
+	for k := range sides {
+		phi := 2 * math.Pi * float64(k) / N
+		pg.verts = append(pg.verts, r3.Add(r3.Scale(rho*math.Cos(phi), l.a1), r3.Scale(rho*math.Sin(phi), l.a2)))
+	}
+	for k := range sides {
+		t := r3.Unit(r3.Sub(pg.verts[(k+1)%sides], pg.verts[k]))
+		pg.tang = append(pg.tang, t)
+		pg.bxt = append(pg.bxt, r3.Cross(l.b, t))
+	}
+	return pg
+}
+
+// Sides returns the number of sides of the loop's finest polygon.
+func (l *Loop) Sides() int { return len(l.levels[0].verts) }
 
 // R returns Burgers' displacement at p (nm).
 func (l *Loop) R(p r3.Vec) r3.Vec {
@@ -117,19 +139,36 @@ func (l *Loop) R(p r3.Vec) r3.Vec {
 	return r3.Add(u, r3.Scale(l.k2, gradInt))
 }
 
+// level picks the coarsest polygon whose sagitta is at most
+// max(0.005 nm, d/100), d the distance of r (relative to the centre) from
+// the circle.
+func (l *Loop) level(r r3.Vec) *loopPolygon {
+	h := r3.Dot(r, l.n)
+	rho := math.Sqrt(math.Max(r3.Norm2(r)-h*h, 0))
+	d := math.Hypot(rho-l.radius, h)
+	allowed := math.Max(loopSagittaNm, d/100)
+	for k := len(l.levels) - 1; k > 0; k-- {
+		if l.levels[k].sagitta <= allowed {
+			return &l.levels[k]
+		}
+	}
+	return &l.levels[0]
+}
+
 // parts returns Ω, Σ_k (b×t_k) ∫ds/R and Σ_k c_k ∫(r' − r)/R³ ds with
 // c_k = (b × (A_k − r))·t_k.
 func (l *Loop) parts(p r3.Vec) (omega float64, lineInt, gradInt r3.Vec) {
 	r := r3.Sub(p, l.c)
+	pg := l.level(r)
 	r0 := r3.Scale(-1, r)
 	n0 := math.Sqrt(r3.Norm2(r0))
-	nv := len(l.verts)
-	dA := r3.Sub(r, l.verts[0])
+	nv := len(pg.verts)
+	dA := r3.Sub(r, pg.verts[0])
 	RA := math.Sqrt(r3.Norm2(dA))
 	for k := range nv {
-		dB := r3.Sub(r, l.verts[(k+1)%nv])
+		dB := r3.Sub(r, pg.verts[(k+1)%nv])
 		RB := math.Sqrt(r3.Norm2(dB))
-		t := l.tang[k]
+		t := pg.tang[k]
 		// Solid angle of triangle (centre, V_k, V_k+1) seen from p.
 		r1, r2 := r3.Scale(-1, dA), r3.Scale(-1, dB)
 		num := r3.Dot(r0, r3.Cross(r1, r2))
@@ -152,7 +191,7 @@ func (l *Loop) parts(p r3.Vec) (omega float64, lineInt, gradInt r3.Vec) {
 			f = (eA/RA - eB/RB) / rho2
 		}
 		ivec := r3.Add(r3.Scale(1/RB-1/RA, t), r3.Scale(f, rho))
-		lineInt = r3.Add(lineInt, r3.Scale(iln, l.bxt[k]))
+		lineInt = r3.Add(lineInt, r3.Scale(iln, pg.bxt[k]))
 		// (b × (r' − r))·t = −(b × dA)·t is constant along the side.
 		ck := -r3.Dot(r3.Cross(l.b, dA), t)
 		gradInt = r3.Sub(gradInt, r3.Scale(ck, ivec))
@@ -170,7 +209,8 @@ func (l *Loop) Jumps(x, y, z0, z1 float64, dst []float64) []float64 {
 	}
 	q := r3.Sub(r3.Vec{X: x, Y: y, Z: z}, l.c)
 	u, v := r3.Dot(q, l.a1), r3.Dot(q, l.a2)
-	nv := len(l.verts)
+	pg := &l.levels[0]
+	nv := len(pg.verts)
 	phi := math.Atan2(v, u)
 	if phi < 0 {
 		phi += 2 * math.Pi
@@ -178,8 +218,8 @@ func (l *Loop) Jumps(x, y, z0, z1 float64, dst []float64) []float64 {
 	k := int(phi / (2 * math.Pi / float64(nv)))
 	k = min(max(k, 0), nv-1)
 	// Inside the sector's side: distance to the side's line below the apothem.
-	mid := r3.Unit(r3.Add(l.verts[k], l.verts[(k+1)%nv]))
-	if r3.Dot(q, mid) < l.sectorNm {
+	mid := r3.Unit(r3.Add(pg.verts[k], pg.verts[(k+1)%nv]))
+	if r3.Dot(q, mid) < pg.apothem {
 		dst = append(dst, z)
 	}
 	return dst

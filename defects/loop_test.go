@@ -88,8 +88,8 @@ func TestLoopNearEdgeIsStraight(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		mid := r3.Scale(0.5, r3.Add(l.verts[0], l.verts[1]))
-		u := l.tang[0]
+		mid := r3.Scale(0.5, r3.Add(l.levels[0].verts[0], l.levels[0].verts[1]))
+		u := l.levels[0].tang[0]
 		at := r3.Add(c, mid)
 		out := r3.Unit(mid)
 		for _, d := range []float64{1, 2, 4} {

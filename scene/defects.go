@@ -2,6 +2,7 @@ package scene
 
 import (
 	"fmt"
+	"math"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -83,7 +84,91 @@ func (st *Setup) buildDefects() (defects.Sum, error) {
 			if err != nil {
 				return nil, err
 			}
-			if f, err = defects.NewFault(at, n, shift); err != nil {
+			if d.Edge == nil {
+				if f, err = defects.NewFault(at, n, shift); err != nil {
+					return nil, defectErr(path, err)
+				}
+				break
+			}
+			edge, err := direction(path+".edge", d.Edge)
+			if err != nil {
+				return nil, err
+			}
+			if math.Abs(r3.Dot(r3.Unit(edge), r3.Unit(n))) > 1e-6 {
+				return nil, fieldErr(path+".edge", "%s does not lie in the fault plane %s", fmtIdx(d.Edge), fmtIdx(d.Plane))
+			}
+			if f, err = defects.NewBoundedFault(at, n, shift, edge, d.BoundsNm[0], d.BoundsNm[1]); err != nil {
+				return nil, defectErr(path, err)
+			}
+		case "dissociated":
+			m, err := needMedium(path)
+			if err != nil {
+				return nil, err
+			}
+			b, err := burgers(path+".b", d.B)
+			if err != nil {
+				return nil, err
+			}
+			b1, err := burgers(path+".partials[0]", d.Partials[0])
+			if err != nil {
+				return nil, err
+			}
+			b2, err := burgers(path+".partials[1]", d.Partials[1])
+			if err != nil {
+				return nil, err
+			}
+			line, err := direction(path+".line", d.Line)
+			if err != nil {
+				return nil, err
+			}
+			n, err := planeNormal(path+".plane", d.Plane)
+			if err != nil {
+				return nil, err
+			}
+			if err := st.checkDissociation(path, d); err != nil {
+				return nil, err
+			}
+			if d.Elasticity == "anisotropic" && m.C == nil {
+				return nil, fieldErr(path+".elasticity", "anisotropic needs the full elastic constants of the crystal, and it has only {shear_gpa, poisson}")
+			}
+			aniso := st.anisotropic(d, m)
+			var sep float64
+			if d.SeparationNm != nil {
+				sep = *d.SeparationNm
+			} else {
+				if sep, err = defects.SeparationFromSFE(b1, b2, line, m, *d.SFEmJm2, aniso); err != nil {
+					return nil, defectErr(path, err)
+				}
+				kind := "isotropic"
+				if aniso {
+					kind = "anisotropic"
+				}
+				st.Notes = append(st.Notes, fmt.Sprintf("%s: partial separation %.2f nm from the stacking-fault energy %g mJ/m² (%s elasticity)", path, sep, *d.SFEmJm2, kind))
+			}
+			if f, err = defects.NewDissociated(b, b1, b2, line, at, n, sep, m, aniso); err != nil {
+				return nil, defectErr(path, err)
+			}
+		case "loop":
+			m, err := needMedium(path)
+			if err != nil {
+				return nil, err
+			}
+			b, err := burgers(path+".b", d.B)
+			if err != nil {
+				return nil, err
+			}
+			n, err := direction(path+".normal", d.Normal)
+			if err != nil {
+				return nil, err
+			}
+			if f, err = defects.NewLoop(at, n, b, *d.RadiusNm, m); err != nil {
+				return nil, defectErr(path, err)
+			}
+		case "cavity":
+			if err := st.insideFoil(path, at, *d.RadiusNm); err != nil {
+				return nil, err
+			}
+			if f, err = defects.NewCavity(at, *d.RadiusNm); err != nil {
 				return nil, defectErr(path, err)
 			}
 		case "inclusion":
@@ -102,10 +187,10 @@ func (st *Setup) buildDefects() (defects.Sum, error) {
 			if f, err = defects.NewInclusion(at, *d.RadiusNm, strain); err != nil {
 				return nil, defectErr(path, err)
 			}
-		default:
-			return nil, fieldErr(path+".type", "%s defects are not built yet; the simulator has dislocation, fault and inclusion", d.Type)
 		}
-		_ = err
+		if err != nil {
+			return nil, err
+		}
 		sum = append(sum, f)
 	}
 	return sum, nil
@@ -121,4 +206,71 @@ func (st *Setup) anisotropic(d *Defect, m defects.Medium) bool {
 		return false
 	}
 	return m.C != nil
+}
+
+// insideFoil checks that a sphere lies inside the foil: its distance from
+// both surface planes is at least its radius.
+func (st *Setup) insideFoil(path string, c r3.Vec, r float64) error {
+	n := st.Problem.Normal
+	if n == (r3.Vec{}) {
+		n = r3.Vec{Z: 1}
+	}
+	t := st.Problem.ThicknessNm
+	top := r3.Dot(n, c)            // distance below the entrance plane n·p = 0
+	bottom := t*n.Z - r3.Dot(n, c) // distance above the exit plane n·p = t n_z
+	if top < r || bottom < r {
+		return fieldErr(path, "a cavity of radius %g nm at depth %g nm reaches outside the foil (%g nm thick); cavities must lie inside it", r, c.Z, t)
+	}
+	return nil
+}
+
+// checkDissociation checks a dissociated dislocation in the indices the
+// user wrote: the line, b and both partials lie in the glide plane
+// (h u + k v + l w = 0, the Weiss zone law) and the partials add up to b.
+func (st *Setup) checkDissociation(path string, d *Defect) error {
+	cell := st.Crystal.Cell
+	hkl, err := cell.PlaneIndices(d.Plane)
+	if err != nil {
+		return wrapErr(path+".plane", err)
+	}
+	inPlane := func(field, what string, uvw [3]float64) error {
+		dot := hkl[0]*uvw[0] + hkl[1]*uvw[1] + hkl[2]*uvw[2]
+		if math.Abs(dot) > 1e-9 {
+			return fieldErr(field, "%s does not lie in the glide plane %s", what, fmtIdx(d.Plane))
+		}
+		return nil
+	}
+	line, err := cell.DirectionIndices(d.Line)
+	if err != nil {
+		return wrapErr(path+".line", err)
+	}
+	if err := inPlane(path+".line", "the line "+fmtIdx(d.Line), line); err != nil {
+		return err
+	}
+	b, err := cell.Burgers(d.B)
+	if err != nil {
+		return wrapErr(path+".b", err)
+	}
+	if err := inPlane(path+".b", "b = "+d.B, b); err != nil {
+		return err
+	}
+	var sum [3]float64
+	for i, text := range d.Partials {
+		p, err := cell.Burgers(text)
+		if err != nil {
+			return wrapErr(fmt.Sprintf("%s.partials[%d]", path, i), err)
+		}
+		if err := inPlane(fmt.Sprintf("%s.partials[%d]", path, i), "the partial "+text, p); err != nil {
+			return err
+		}
+		for k := range sum {
+			sum[k] += p[k]
+		}
+	}
+	for k := range sum {
+		if math.Abs(sum[k]-b[k]) > 1e-9 {
+			return fieldErr(path+".partials", "%s + %s does not add up to b = %s", d.Partials[0], d.Partials[1], d.B)
+		}
+	}
+	return nil
 }

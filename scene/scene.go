@@ -118,6 +118,12 @@ type Defect struct {
 	Misfit       *float64  `json:"misfit,omitempty"`
 	Normal       []float64 `json:"normal,omitempty"`
 	Elasticity   string    `json:"elasticity,omitempty"`
+	// Edge and BoundsNm bound a fault to a strip of its plane: the
+	// bounding lines run along the direction Edge [uvw], and the strip
+	// spans the in-plane distances BoundsNm [from, to] from at_nm measured
+	// along n × edge (n the plane normal).
+	Edge     []float64 `json:"edge,omitempty"`
+	BoundsNm []float64 `json:"bounds_nm,omitempty"`
 }
 
 // Image is the simulated field of view.

@@ -193,6 +193,7 @@ func (d *Defect) fieldsOf() map[string]bool {
 		"partials": d.Partials != nil, "separation_nm": d.SeparationNm != nil, "sfe_mj_m2": d.SFEmJm2 != nil,
 		"shift": d.Shift != "", "radius_nm": d.RadiusNm != nil, "strain": d.Strain != nil,
 		"misfit": d.Misfit != nil, "normal": d.Normal != nil, "elasticity": d.Elasticity != "",
+		"edge": d.Edge != nil, "bounds_nm": d.BoundsNm != nil,
 	}
 }
 
@@ -201,7 +202,7 @@ func (d *Defect) fieldsOf() map[string]bool {
 var defectFields = map[string][2][]string{
 	"dislocation": {{"b", "line", "at_nm"}, {"elasticity"}},
 	"dissociated": {{"b", "line", "at_nm", "plane", "partials"}, {"separation_nm", "sfe_mj_m2", "elasticity"}},
-	"fault":       {{"plane", "shift", "at_nm"}, nil},
+	"fault":       {{"plane", "shift", "at_nm"}, {"edge", "bounds_nm"}},
 	"inclusion":   {{"at_nm", "radius_nm"}, {"strain", "misfit"}},
 	"loop":        {{"at_nm", "normal", "b", "radius_nm"}, nil},
 	"cavity":      {{"at_nm", "radius_nm"}, nil},
@@ -226,7 +227,7 @@ func (d *Defect) validate(path string) error {
 	for _, f := range spec[1] {
 		allowed[f] = true
 	}
-	for _, f := range []string{"b", "line", "at_nm", "plane", "partials", "separation_nm", "sfe_mj_m2", "shift", "radius_nm", "strain", "misfit", "normal", "elasticity"} {
+	for _, f := range []string{"b", "line", "at_nm", "plane", "partials", "separation_nm", "sfe_mj_m2", "shift", "radius_nm", "strain", "misfit", "normal", "elasticity", "edge", "bounds_nm"} {
 		if set[f] && !allowed[f] {
 			return fieldErr(path+"."+f, "does not apply to a %s", d.Type)
 		}
@@ -237,7 +238,7 @@ func (d *Defect) validate(path string) error {
 	for _, f := range []struct {
 		name string
 		v    []float64
-	}{{"line", d.Line}, {"plane", d.Plane}, {"normal", d.Normal}} {
+	}{{"line", d.Line}, {"plane", d.Plane}, {"normal", d.Normal}, {"edge", d.Edge}} {
 		if f.v == nil {
 			continue
 		}
@@ -259,6 +260,15 @@ func (d *Defect) validate(path string) error {
 		for name, v := range map[string]*float64{"strain": d.Strain, "misfit": d.Misfit} {
 			if v != nil && !(math.Abs(*v) < 0.5) {
 				return fieldErr(path+"."+name, "%g: must be a small fraction (|value| < 0.5)", *v)
+			}
+		}
+	case "fault":
+		if (d.Edge == nil) != (d.BoundsNm == nil) {
+			return fieldErr(path, "a bounded fault needs both edge and bounds_nm")
+		}
+		if d.BoundsNm != nil {
+			if len(d.BoundsNm) != 2 || math.IsNaN(d.BoundsNm[0]) || math.IsNaN(d.BoundsNm[1]) || !(d.BoundsNm[0] < d.BoundsNm[1]) {
+				return fieldErr(path+".bounds_nm", "%v: needs [from, to] in nm with from < to", d.BoundsNm)
 			}
 		}
 	case "dissociated":

@@ -1,0 +1,104 @@
+package ui
+
+import (
+	"image"
+	"math"
+)
+
+// A source is what an image panel shows: a grey level at every specimen
+// position (nm in the image frame), or nothing.
+type source interface {
+	at(xNm, yNm float64) (v uint8, ok bool)
+}
+
+// gridSource is a grey image covering a field centred on the origin, one
+// image pixel per simulated column (sim.Grid's pixel centres).
+type gridSource struct {
+	img        *image.Gray
+	wNm, hNm   float64
+	nx, ny     int
+	invW, invH float64
+}
+
+func newGridSource(img *image.Gray, wNm, hNm float64) *gridSource {
+	b := img.Bounds()
+	return &gridSource{img: img, wNm: wNm, hNm: hNm, nx: b.Dx(), ny: b.Dy(), invW: 1 / wNm, invH: 1 / hNm}
+}
+
+func (s *gridSource) at(x, y float64) (uint8, bool) {
+	fi := (x*s.invW + 0.5) * float64(s.nx)
+	fj := (y*s.invH + 0.5) * float64(s.ny)
+	if fi < 0 || fj < 0 {
+		return 0, false
+	}
+	i, j := int(fi), int(fj)
+	if i >= s.nx || j >= s.ny {
+		return 0, false
+	}
+	return s.img.Pix[j*s.img.Stride+i], true
+}
+
+// rotatedSource is a grey picture (a micrograph) with square pixels of
+// nmPerPx, turned so that its g direction, at gAngleDeg counter-clockwise
+// from the picture's +x (right), points along +x of the image frame as in
+// every simulated image, and with its centre at (offX, offY) nm. The turn
+// is a rotation, never a mirror.
+type rotatedSource struct {
+	img        *image.Gray
+	nmPerPx    float64
+	cos, sin   float64
+	offX, offY float64
+}
+
+func newRotatedSource(img *image.Gray, nmPerPx, gAngleDeg, offXNm, offYNm float64) *rotatedSource {
+	a := gAngleDeg * math.Pi / 180
+	return &rotatedSource{img: img, nmPerPx: nmPerPx, cos: math.Cos(a), sin: math.Sin(a), offX: offXNm, offY: offYNm}
+}
+
+// pixel returns the picture position (pixels, x right, y down, from its
+// top-left corner) that shows the specimen point (x, y) of the image frame.
+//
+// The picture's g is the unit vector u = (cos a, −sin a) in its pixel
+// frame (y runs down, so counter-clockwise on the screen is −y), and
+// y = z × x of the image frame is u turned a quarter clockwise on the
+// screen, v = (sin a, cos a). The point x·u + y·v from the centre is then
+// the one shown at (x, y).
+func (s *rotatedSource) pixel(x, y float64) (px, py float64) {
+	b := s.img.Bounds()
+	x, y = (x-s.offX)/s.nmPerPx, (y-s.offY)/s.nmPerPx
+	return float64(b.Dx())/2 + x*s.cos + y*s.sin, float64(b.Dy())/2 - x*s.sin + y*s.cos
+}
+
+func (s *rotatedSource) at(x, y float64) (uint8, bool) {
+	px, py := s.pixel(x, y)
+	b := s.img.Bounds()
+	if px < 0 || py < 0 {
+		return 0, false
+	}
+	i, j := int(px), int(py)
+	if i >= b.Dx() || j >= b.Dy() {
+		return 0, false
+	}
+	return s.img.Pix[j*s.img.Stride+i], true
+}
+
+// blendSource mixes two sources: (1−w)·a + w·b where both cover the point,
+// whichever does elsewhere.
+type blendSource struct {
+	a, b source
+	w    float64
+}
+
+func (s *blendSource) at(x, y float64) (uint8, bool) {
+	va, oka := s.a.at(x, y)
+	vb, okb := s.b.at(x, y)
+	switch {
+	case oka && okb:
+		return uint8(math.Round((1-s.w)*float64(va) + s.w*float64(vb))), true
+	case oka:
+		return va, true
+	case okb:
+		return vb, true
+	}
+	return 0, false
+}
