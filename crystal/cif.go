@@ -99,7 +99,8 @@ func (b *cifBlock) singleFloat(tag string) (float64, error) {
 
 func crystalFromBlock(b *cifBlock) (*Crystal, error) {
 	var p [6]float64
-	for i, tag := range []string{"_cell_length_a", "_cell_length_b", "_cell_length_c", "_cell_angle_alpha", "_cell_angle_beta", "_cell_angle_gamma"} {
+	cellTags := [6]string{"_cell_length_a", "_cell_length_b", "_cell_length_c", "_cell_angle_alpha", "_cell_angle_beta", "_cell_angle_gamma"}
+	for i, tag := range cellTags {
 		x, err := b.singleFloat(tag)
 		if err != nil {
 			return nil, err
@@ -108,7 +109,14 @@ func crystalFromBlock(b *cifBlock) (*Crystal, error) {
 	}
 	cell, err := NewCell(p[0]/angstromPerNm, p[1]/angstromPerNm, p[2]/angstromPerNm, p[3], p[4], p[5])
 	if err != nil {
-		return nil, cifErr(b.tagAt["_cell_length_a"], "%v", err)
+		// Point at the first bad length, else at the angles.
+		line := b.tagAt[cellTags[3]]
+		for i := 2; i >= 0; i-- {
+			if !(p[i] > 0) || math.IsInf(p[i], 0) {
+				line = b.tagAt[cellTags[i]]
+			}
+		}
+		return nil, cifErr(line, "%v", err)
 	}
 	ops, err := cifSymmetry(b)
 	if err != nil {

@@ -17,7 +17,10 @@ type Atom struct {
 }
 
 // Crystal is a cell with every atom in it (already expanded by symmetry)
-// and, when HasElastic, its elastic constants.
+// and, when HasElastic, its elastic constants. Build one with New, Preset
+// or ParseCIF, which check the atoms; a Crystal assembled by hand with an
+// element missing from the scattering-factor table makes the structure
+// factor methods panic (a programmer error).
 type Crystal struct {
 	Name       string
 	Structure  string // e.g. "fcc (Fm-3m)"; informative only
@@ -53,7 +56,7 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 	if len(atoms) == 0 {
 		return nil, fmt.Errorf("crystal %q: no atoms", name)
 	}
-	ops := []SymOp{Identity}
+	ops := []SymOp{identityOp}
 	if len(symmetry) > 0 {
 		ops = ops[:0]
 		for i, s := range symmetry {
@@ -61,12 +64,20 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 			if err != nil {
 				return nil, fmt.Errorf("crystal %q: symmetry[%d]: %w", name, i, err)
 			}
-			ops = append(ops, op)
+			if !hasOp(ops, op) {
+				ops = append(ops, op)
+			}
 		}
 	}
 	trans, err := Centring(centering, cell)
 	if err != nil {
 		return nil, fmt.Errorf("crystal %q: %w", name, err)
+	}
+	if n := len(ops) * len(trans); n > maxOpsPerAtom {
+		return nil, fmt.Errorf("crystal %q: %d distinct operators × %d centring translations exceed %d (a space group has at most 192 operations)", name, len(ops), len(trans), maxOpsPerAtom)
+	}
+	if n := len(atoms) * len(ops) * len(trans); n > maxImages {
+		return nil, fmt.Errorf("crystal %q: %d atoms × %d operators × %d centring translations exceed %d images", name, len(atoms), len(ops), len(trans), maxImages)
 	}
 	var out []Atom
 	for i, at := range atoms {
@@ -155,6 +166,39 @@ func nearSite(cell Cell, sites []Atom, x [3]float64) (int, []float64) {
 		}
 	}
 	return -1, nil
+}
+
+// maxImages bounds the symmetry expansion (atoms × operators × centring
+// translations, before merging): 10⁷ is far above any crystal a
+// diffraction-contrast simulation needs and keeps a malformed file from
+// exhausting memory.
+const maxImages = 10_000_000
+
+// maxOpsPerAtom bounds the images of one atom: a space group has at most
+// 192 operations in its conventional cell (International Tables Vol. A), so
+// 4096 leaves room for redundant input while keeping the merge (quadratic
+// in the images of one atom) fast.
+const maxOpsPerAtom = 4096
+
+// hasOp reports whether ops holds op up to a lattice translation (a listed
+// operator repeated, or given once as x+1,y,z and once as x,y,z).
+func hasOp(ops []SymOp, op SymOp) bool {
+	for _, o := range ops {
+		if o.R != op.R {
+			continue
+		}
+		same := true
+		for i := range o.T {
+			d := o.T[i] - op.T[i]
+			if math.Abs(d-math.Round(d)) > 1e-9 {
+				same = false
+			}
+		}
+		if same {
+			return true
+		}
+	}
+	return false
 }
 
 // WithElastic returns a copy of c carrying the elastic constants e.

@@ -14,8 +14,8 @@ type SymOp struct {
 	T [3]float64
 }
 
-// Identity is the operation x, y, z.
-var Identity = SymOp{R: [3][3]float64{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}}
+// identityOp is the operation x, y, z.
+var identityOp = SymOp{R: [3][3]float64{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}}
 
 // Apply returns R x + T.
 func (op SymOp) Apply(x [3]float64) [3]float64 {

@@ -1,7 +1,6 @@
 package defects
 
 import (
-	"errors"
 	"fmt"
 	"math"
 
@@ -12,10 +11,6 @@ import (
 // field is not evaluated at its true radius: r is held at this value, so R
 // stays finite on the line itself (linear elasticity fails there anyway).
 const coreRadiusNm = 1e-3
-
-// ErrAnisotropicNotBuilt was returned before the Stroh solution existed; it
-// is kept so callers that test for it still compile.
-var ErrAnisotropicNotBuilt = errors.New("anisotropic elasticity is not built yet")
 
 // Dislocation is a straight dislocation of any character along any line
 // direction. Its displacement is that of an infinite straight line in an

@@ -19,7 +19,7 @@ import (
 //
 //	d = b2ᵀ K b1 / (2π γ).
 //
-// Isotropic K gives Hirth & Lothe's eq. 10-?? for Shockley partials,
+// Isotropic K gives Hirth & Lothe's (1982, ch. 10) result for partials,
 // d = μ/(2πγ) [(b1·u)(b2·u) + (b1×u)·(b2×u)/(1−ν)], which for partials of
 // length b_p at ±30° to b is the familiar
 // d = μ b_p² (2−ν)/(8πγ(1−ν)) (1 − 2ν cos 2β/(2−ν)), β the angle between b

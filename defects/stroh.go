@@ -28,7 +28,7 @@ type strohField struct {
 	p        [3]complex128
 	cr, ci   [3]r3.Vec // Re c_α, Im c_α
 	fallback *isoEdgeScrew
-	// energy is the energy-factor matrix L = −2i B Bᵀ (Ting 1996, eq. 7.6-?;
+	// energy is the energy-factor matrix L = −2i B Bᵀ (Ting 1996, ch. 7;
 	// the prelogarithmic factor of the energy is bᵀLb/4π) in the
 	// dislocation frame, GPa.
 	energy [3][3]float64

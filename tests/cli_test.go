@@ -251,3 +251,36 @@ func TestBadInput(t *testing.T) {
 		}
 	}
 }
+
+// Every defect kind renders through the command line, several in one
+// scene, and each leaves its mark: removing any one of them changes the
+// image.
+func TestEveryDefectKindRenders(t *testing.T) {
+	data, err := os.ReadFile("testdata/all_defects.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := t.TempDir()
+	if _, stderr, code := cli(t, "render", "testdata/all_defects.json", "-o", out); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	all := render(t, setup(t, string(data)))
+	var sc map[string]any
+	if err := json.Unmarshal(data, &sc); err != nil {
+		t.Fatal(err)
+	}
+	defs := sc["defects"].([]any)
+	for k := range defs {
+		rest := append(append([]any{}, defs[:k]...), defs[k+1:]...)
+		sc["defects"] = rest
+		text, _ := json.Marshal(sc)
+		without := render(t, setup(t, string(text)))
+		diff := 0.0
+		for n := range all.BF() {
+			diff = math.Max(diff, math.Abs(all.BF()[n]-without.BF()[n]))
+		}
+		if diff < 0.01 {
+			t.Errorf("removing %v changes the image by only %g", defs[k].(map[string]any)["type"], diff)
+		}
+	}
+}

@@ -1,0 +1,212 @@
+package ui
+
+import (
+	"bufio"
+	"fmt"
+	"image"
+	"image/color"
+	"io"
+	"math"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/widget"
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgimg"
+
+	"faultline/sim"
+)
+
+// profileLine is a straight line across the images, from (X0, Y0) to
+// (X1, Y1) in nm of the image frame.
+type profileLine struct {
+	X0, Y0, X1, Y1 float64
+	Set            bool
+}
+
+func (l profileLine) lengthNm() float64 { return math.Hypot(l.X1-l.X0, l.Y1-l.Y0) }
+
+// profile is the bright and dark field sampled along a line.
+type profile struct {
+	DistNm, XNm, YNm []float64
+	BF, DF           []float64
+}
+
+// sampleProfile samples both beams along l, about two samples per pixel,
+// interpolating bilinearly between pixel centres (a point beyond the
+// outermost centres takes the edge value). Points outside the field are
+// left out.
+func sampleProfile(im *sim.Image, l profileLine) profile {
+	g := im.Grid
+	dx, dy := g.WidthNm/float64(g.NX), g.HeightNm/float64(g.NY)
+	length := l.lengthNm()
+	n := max(2, int(math.Ceil(2*length/math.Min(dx, dy)))+1)
+	var p profile
+	bf, df := im.BF(), im.DF()
+	for k := 0; k < n; k++ {
+		t := float64(k) / float64(n-1)
+		x := l.X0 + t*(l.X1-l.X0)
+		y := l.Y0 + t*(l.Y1-l.Y0)
+		if math.Abs(x) > g.WidthNm/2 || math.Abs(y) > g.HeightNm/2 {
+			continue
+		}
+		p.DistNm = append(p.DistNm, t*length)
+		p.XNm = append(p.XNm, x)
+		p.YNm = append(p.YNm, y)
+		p.BF = append(p.BF, bilinear(bf, g, x, y))
+		p.DF = append(p.DF, bilinear(df, g, x, y))
+	}
+	return p
+}
+
+// bilinear interpolates a plane of g at (x, y) nm between pixel centres.
+func bilinear(plane []float64, g sim.Grid, x, y float64) float64 {
+	fi := x/g.WidthNm*float64(g.NX) + float64(g.NX)/2 - 0.5
+	fj := y/g.HeightNm*float64(g.NY) + float64(g.NY)/2 - 0.5
+	fi = clamp(fi, 0, float64(g.NX-1))
+	fj = clamp(fj, 0, float64(g.NY-1))
+	i0, j0 := int(fi), int(fj)
+	i1, j1 := min(i0+1, g.NX-1), min(j0+1, g.NY-1)
+	ti, tj := fi-float64(i0), fj-float64(j0)
+	at := func(i, j int) float64 { return plane[j*g.NX+i] }
+	return (1-tj)*((1-ti)*at(i0, j0)+ti*at(i1, j0)) + tj*((1-ti)*at(i0, j1)+ti*at(i1, j1))
+}
+
+// writeProfileCSV writes a profile as CSV with the header
+// distance_nm,x_nm,y_nm,bf,df.
+func writeProfileCSV(w io.Writer, p profile) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintln(bw, "distance_nm,x_nm,y_nm,bf,df")
+	for k := range p.DistNm {
+		fmt.Fprintf(bw, "%.6g,%.6g,%.6g,%.8g,%.8g\n", p.DistNm[k], p.XNm[k], p.YNm[k], p.BF[k], p.DF[k])
+	}
+	return bw.Flush()
+}
+
+// Colours of the two beams in the plot.
+var (
+	bfColour = color.NRGBA{0x20, 0x20, 0x20, 0xff}
+	dfColour = color.NRGBA{0x1f, 0x6f, 0xc0, 0xff}
+)
+
+// plotProfile draws the profile into a w × h pixel image at dpi.
+func plotProfile(p profile, w, h int, dpi float64) (image.Image, error) {
+	pl := plot.New()
+	pl.X.Label.Text = "distance along the line (nm)"
+	pl.Y.Label.Text = "intensity / incident"
+	pl.Add(plotter.NewGrid())
+	bf, df := make(plotter.XYs, len(p.DistNm)), make(plotter.XYs, len(p.DistNm))
+	for k := range p.DistNm {
+		bf[k] = plotter.XY{X: p.DistNm[k], Y: p.BF[k]}
+		df[k] = plotter.XY{X: p.DistNm[k], Y: p.DF[k]}
+	}
+	lb, err := plotter.NewLine(bf)
+	if err != nil {
+		return nil, err
+	}
+	lb.Color, lb.Width = bfColour, vg.Points(1.5)
+	ld, err := plotter.NewLine(df)
+	if err != nil {
+		return nil, err
+	}
+	ld.Color, ld.Width = dfColour, vg.Points(1.5)
+	pl.Add(lb, ld)
+	pl.Legend.Add("BF", lb)
+	pl.Legend.Add("DF", ld)
+	pl.Legend.Top = true
+	pl.Y.Min = 0
+	pl.Y.Max = math.Max(1, pl.Y.Max)
+	pts := func(px int) vg.Length { return vg.Length(float64(px) * 72 / dpi) }
+	c := vgimg.NewWith(vgimg.UseWH(pts(w), pts(h)), vgimg.UseDPI(int(dpi)))
+	pl.Draw(draw.New(c))
+	return c.Image(), nil
+}
+
+// profilePanel is the line-profile plot under the images.
+type profilePanel struct {
+	ws     *Workspace
+	raster *canvas.Raster
+	hint   *widget.Label
+	info   *widget.Label
+	cur    profile
+	have   bool
+}
+
+// profilePanelObject returns the profile plot.
+func profilePanelObject(ws *Workspace) fyne.CanvasObject {
+	pp := &profilePanel{ws: ws}
+	ws.prof = pp
+	pp.raster = canvas.NewRaster(pp.draw)
+	pp.raster.ScaleMode = canvas.ImageScaleSmooth
+	pp.hint = widget.NewLabel("Choose \"Profile line\" above and drag across an image to plot BF and DF along the line.")
+	pp.hint.Wrapping = fyne.TextWrapWord
+	pp.hint.Importance = widget.LowImportance
+	pp.info = widget.NewLabel("")
+	pp.info.Importance = widget.LowImportance
+	ws.view.onLine = append(ws.view.onLine, pp.update)
+	plotBox := container.NewStack(pp.raster, container.NewCenter(pp.hint))
+	box := container.NewBorder(pp.info, nil, nil, nil, plotBox)
+	pp.update(true)
+	return container.New(minHeight(230), box)
+}
+
+// update samples the current render along the current line.
+func (pp *profilePanel) update(final bool) {
+	v := pp.ws.view
+	if !v.line.Set || v.res == nil || v.line.lengthNm() == 0 {
+		pp.have = false
+		pp.hint.Show()
+		pp.info.SetText("Line profile")
+		pp.raster.Refresh()
+		return
+	}
+	pp.cur = sampleProfile(v.res.Image, v.line)
+	pp.have = len(pp.cur.DistNm) >= 2
+	if pp.have {
+		pp.hint.Hide()
+	} else {
+		pp.hint.Show()
+	}
+	l := v.line
+	pp.info.SetText(fmt.Sprintf("Line profile from (%.1f, %.1f) to (%.1f, %.1f) nm, %.1f nm long",
+		l.X0, l.Y0, l.X1, l.Y1, l.lengthNm()))
+	pp.raster.Refresh()
+}
+
+func (pp *profilePanel) draw(w, h int) image.Image {
+	if !pp.have || w < 50 || h < 50 {
+		img := image.NewRGBA(image.Rect(0, 0, max(w, 1), max(h, 1)))
+		return img
+	}
+	scale := 1.0
+	if s := pp.raster.Size(); s.Width > 0 {
+		scale = float64(w) / float64(s.Width)
+	}
+	img, err := plotProfile(pp.cur, w, h, 96*scale)
+	if err != nil {
+		return image.NewRGBA(image.Rect(0, 0, w, h))
+	}
+	return img
+}
+
+// minHeight is a stack layout whose minimum height is at least h.
+type minHeight float32
+
+func (m minHeight) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+	for _, o := range objs {
+		o.Move(fyne.NewPos(0, 0))
+		o.Resize(size)
+	}
+}
+
+func (m minHeight) MinSize(objs []fyne.CanvasObject) fyne.Size {
+	var s fyne.Size
+	for _, o := range objs {
+		s = s.Max(o.MinSize())
+	}
+	return fyne.NewSize(s.Width, max(s.Height, float32(m)))
+}

@@ -1,0 +1,81 @@
+package ui
+
+import (
+	"errors"
+	"fmt"
+	"time"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/widget"
+
+	"faultline/scene"
+)
+
+// statusLine is the bottom line of the window: render progress, how long
+// the last renders took, and the error that stops the render, if any.
+type statusLine struct {
+	Progress *widget.ProgressBar
+	Timing   *widget.Label
+	Message  *widget.Label
+
+	preview time.Duration // latency of the last preview
+}
+
+// statusPanel returns the status line.
+func statusPanel(ws *Workspace) fyne.CanvasObject {
+	s := &statusLine{Progress: widget.NewProgressBar(), Timing: widget.NewLabel("Starting…"), Message: widget.NewLabel("")}
+	ws.status = s
+	s.Progress.Min, s.Progress.Max = 0, 1
+	s.Progress.TextFormatter = func() string { return fmt.Sprintf("%.0f %%", 100*s.Progress.Value) }
+	s.Message.Truncation = fyne.TextTruncateEllipsis
+
+	c := ws.ctrl
+	c.OnBuilt(func(st *scene.Setup, err error) {
+		if err != nil {
+			msg := err.Error()
+			var fe *scene.FieldError
+			if errors.As(err, &fe) && fe.Path != "" {
+				msg = fe.Path + ": " + fe.Msg
+			}
+			s.Message.Importance = widget.DangerImportance
+			s.Message.SetText("Not rendered: " + msg)
+			s.Progress.SetValue(0)
+			return
+		}
+		s.Message.Importance = widget.MediumImportance
+		s.Message.SetText("")
+		s.Progress.SetValue(0)
+		s.Timing.SetText("Rendering…")
+	})
+	c.OnProgress(func(done, total int) { s.Progress.SetValue(float64(done) / float64(total)) })
+	c.OnResult(func(r *Result) {
+		g := r.Image.Grid
+		if r.Preview {
+			s.preview = r.Latency
+			s.Timing.SetText(fmt.Sprintf("Preview %d × %d shown %s after the change; full render running…", g.NX, g.NY, ms(r.Latency)))
+			return
+		}
+		s.Progress.SetValue(1)
+		text := fmt.Sprintf("Full render %d × %d: %s", g.NX, g.NY, ms(r.Elapsed))
+		if s.preview > 0 {
+			text += fmt.Sprintf("   (preview after %s)", ms(s.preview))
+		}
+		s.Timing.SetText(text)
+		s.preview = 0
+	})
+	c.OnFailed(func(err error) {
+		s.Message.Importance = widget.DangerImportance
+		s.Message.SetText("Render failed: " + err.Error())
+	})
+	bar := container.NewGridWrap(fyne.NewSize(160, s.Progress.MinSize().Height), s.Progress)
+	return container.NewBorder(nil, nil, container.NewHBox(bar, s.Timing), nil, s.Message)
+}
+
+// ms writes a duration in milliseconds, or seconds from 10 s on.
+func ms(d time.Duration) string {
+	if d >= 10*time.Second {
+		return fmt.Sprintf("%.1f s", d.Seconds())
+	}
+	return fmt.Sprintf("%d ms", d.Milliseconds())
+}
