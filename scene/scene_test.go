@@ -202,3 +202,55 @@ func TestLoadErrors(t *testing.T) {
 		t.Errorf("missing file: %v", err)
 	}
 }
+
+// A CIF crystal, an explicit cell and four-index hexagonal input all reach
+// the simulator.
+func TestCrystalSources(t *testing.T) {
+	dir := t.TempDir()
+	cif, err := os.ReadFile("testdata/nacl.cif")
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(dir, "nacl.cif"), cif, 0o644)
+	sc, err := Parse([]byte(replace(t, `"material": "Cu"`, `"cif": "nacl.cif", "elastic": {"shear_gpa": 14.9, "poisson": 0.25}`)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := Build(sc, dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := len(st.Crystal.Atoms); n != 8 {
+		t.Errorf("rock salt cell from CIF has %d atoms, want 8", n)
+	}
+	// The same fcc copper as an explicit cell: four atoms by F centring,
+	// the same extinction distance as the preset when the Debye–Waller
+	// factor is the same.
+	preset := mustBuild(t, base)
+	b := preset.Crystal.Atoms[0].BIsoNm2
+	a := preset.Crystal.Cell.A
+	cell := fmtF(a)
+	explicit := mustBuild(t, replace(t, `"material": "Cu"`, `"cell": {"a_nm": `+cell+`, "b_nm": `+cell+`, "c_nm": `+cell+`, "alpha_deg": 90, "beta_deg": 90, "gamma_deg": 90},
+	  "atoms": [{"element": "Cu", "xyz": [0, 0, 0], "b_iso_nm2": `+fmtF(b)+`}], "centering": "F", "elastic": {"c11": 168, "c12": 121, "c44": 75}`))
+	if len(explicit.Crystal.Atoms) != 4 || math.Abs(explicit.XiGNm-preset.XiGNm) > 1e-9*preset.XiGNm {
+		t.Errorf("explicit fcc Cu: %d atoms, ξ_200 = %g nm (preset %g)", len(explicit.Crystal.Atoms), explicit.XiGNm, preset.XiGNm)
+	}
+	// Hexagonal magnesium in four-index form: g = 1 1 −2 0 in the zone
+	// [0 0 0 1], a Burgers vector 1/3[1 1 −2 0] of length a.
+	mg := mustBuild(t, `{"version": 1, "crystal": {"material": "Mg"}, "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [1, 1, -2, 0], "beam": [0, 0, 0, 1], "s_per_nm": 0},
+	  "foil": {"thickness_nm": 100},
+	  "defects": [{"type": "dislocation", "b": "1/3[1 1 -2 0]", "line": [1, 1, -2, 3], "at_nm": [0, 0, 50]}],
+	  "image": {"width_nm": 50, "height_nm": 50, "pixels": [8, 8]}}`)
+	// d(11−20) = a/2 for a hexagonal cell.
+	if math.Abs(mg.DSpacingNm-mg.Crystal.Cell.A/2) > 1e-12 || mg.G != [3]float64{1, 1, 0} {
+		t.Errorf("Mg g = %v, d = %g nm, a = %g nm", mg.G, mg.DSpacingNm, mg.Crystal.Cell.A)
+	}
+	bad := strings.Replace(`{"version": 1, "crystal": {"material": "Mg"}, "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [1, 1, -1, 0], "beam": [0, 0, 0, 1], "s_per_nm": 0}, "foil": {"thickness_nm": 100},
+	  "defects": [], "image": {"width_nm": 50, "height_nm": 50, "pixels": [8, 8]}}`, "", "", 1)
+	sc, _ = Parse([]byte(bad))
+	if _, err := Build(sc, "."); err == nil || !strings.Contains(err.Error(), "diffraction.g") {
+		t.Errorf("four-index g with i ≠ −(h+k): %v", err)
+	}
+}

@@ -335,17 +335,16 @@ func (dp *defectsPanel) buildForm() {
 		dp.List.Refresh()
 		dp.buildForm()
 	}
-	rows := []fyne.CanvasObject{}
-	row := func(label, field string, obj fyne.CanvasObject) {
-		l, o := formRow(label, obj, ws.board.label(path+"."+field))
-		rows = append(rows, l, o)
+	rows := []row{}
+	addRow := func(label, field string, obj fyne.CanvasObject) {
+		rows = append(rows, formRow(label, obj, ws.board.label(path+"."+field)))
 	}
-	row("Type", "type", typeSel)
+	addRow("Type", "type", typeSel)
 	if !availableTypes()[d.Type] {
 		note := widget.NewLabel("The simulator cannot model this defect type yet. It is kept in the scene and saved with it, but while it is in the scene nothing is rendered.")
 		note.Wrapping = fyne.TextWrapWord
 		note.Importance = widget.WarningImportance
-		rows = append(rows, widget.NewLabel(""), note)
+		rows = append(rows, formRow("", note))
 	}
 
 	burgers := func(label, field string, get func(d *scene.Defect) *string) {
@@ -353,13 +352,13 @@ func (dp *defectsPanel) buildForm() {
 			func(sc *scene.Scene) string { return *get(def(sc)) },
 			func(sc *scene.Scene, v string) { *get(def(sc)) = v })
 		e.SetPlaceHolder("e.g. 1/2[1 -1 0]")
-		row(label, field, e)
+		addRow(label, field, e)
 	}
 	indices := func(label, field string, get func(d *scene.Defect) *[]float64) {
 		e := b.indicesEntry(path+"."+field, false,
 			func(sc *scene.Scene) []float64 { return *get(def(sc)) },
 			func(sc *scene.Scene, v []float64) { *get(def(sc)) = v })
-		row(label, field, e)
+		addRow(label, field, e)
 	}
 	number := func(label, field, unitText string, get func(d *scene.Defect) **float64) {
 		e := b.numberEntry(path+"."+field,
@@ -370,7 +369,7 @@ func (dp *defectsPanel) buildForm() {
 				return ""
 			},
 			func(sc *scene.Scene, v float64) { *get(def(sc)) = ptr(v) })
-		row(label, field, unit(e, unitText))
+		addRow(label, field, unit(e, unitText))
 	}
 	position := func() {
 		entries := make([]fyne.CanvasObject, 3)
@@ -392,7 +391,7 @@ func (dp *defectsPanel) buildForm() {
 				})
 			entries[k] = unit(e, name)
 		}
-		row("Position", "at_nm", container.NewVBox(container.NewGridWithColumns(3, entries...),
+		addRow("Position", "at_nm", container.NewVBox(container.NewGridWithColumns(3, entries...),
 			widget.NewLabelWithStyle("nm; x along g, y down the image, z depth below the entrance surface", fyne.TextAlignLeading, fyne.TextStyle{Italic: true})))
 	}
 	// oneOf edits a pair of mutually exclusive numbers (separation or
@@ -442,8 +441,7 @@ func (dp *defectsPanel) buildForm() {
 				*get[j](dd) = ptr(v)
 			})
 		}
-		rows = append(rows, widget.NewLabel(label),
-			container.NewVBox(container.NewBorder(nil, nil, choice, unitLbl, e), errl))
+		rows = append(rows, formRow(label, container.NewBorder(nil, nil, choice, unitLbl, e), errl))
 	}
 	elasticity := func() {
 		opts := []string{"default", "isotropic", "anisotropic"}
@@ -460,7 +458,7 @@ func (dp *defectsPanel) buildForm() {
 			}
 			b.edit(path+".elasticity", func(sc *scene.Scene) { def(sc).Elasticity = v })
 		}
-		row("Elasticity", "elasticity", container.NewVBox(sel,
+		addRow("Elasticity", "elasticity", container.NewVBox(sel,
 			widget.NewLabelWithStyle("default: anisotropic (Stroh) when the crystal has all its elastic constants", fyne.TextAlignLeading, fyne.TextStyle{Italic: true})))
 	}
 
@@ -492,9 +490,9 @@ func (dp *defectsPanel) buildForm() {
 				})
 			e.SetPlaceHolder("e.g. 1/6[1 2 1]")
 			if k == 0 {
-				row("Partial b₁", "partials", e)
+				addRow("Partial b₁", "partials", e)
 			} else {
-				rows = append(rows, widget.NewLabel("Partial b₂"), e)
+				rows = append(rows, formRow("Partial b₂", e))
 			}
 		}
 		oneOf("Width from", [2]string{"separation", "fault energy"}, [2]string{"separation_nm", "sfe_mj_m2"}, [2]string{"nm", "mJ/m²"},

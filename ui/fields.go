@@ -180,19 +180,26 @@ func (b *errorBoard) localPaths() []string {
 	return out
 }
 
-// formRow is one labelled field: the label at the left, the field and its
-// error label under it at the right.
-func formRow(label string, field fyne.CanvasObject, errl *widget.Label) (fyne.CanvasObject, fyne.CanvasObject) {
+// row is one line of a form: a label and what it labels.
+type row [2]fyne.CanvasObject
+
+// formRow is one labelled field: the label at the left, the field with
+// its error labels under it at the right.
+func formRow(label string, field fyne.CanvasObject, errs ...fyne.CanvasObject) row {
 	l := widget.NewLabel(label)
-	if errl == nil {
-		return l, field
+	if len(errs) == 0 {
+		return row{l, field}
 	}
-	return l, container.NewVBox(field, errl)
+	return row{l, container.NewVBox(append([]fyne.CanvasObject{field}, errs...)...)}
 }
 
-// form lays pairs out as a two-column form.
-func form(pairs ...fyne.CanvasObject) *fyne.Container {
-	return container.New(layout.NewFormLayout(), pairs...)
+// form lays rows out as a two-column form.
+func form(rows ...row) *fyne.Container {
+	objs := make([]fyne.CanvasObject, 0, 2*len(rows))
+	for _, r := range rows {
+		objs = append(objs, r[0], r[1])
+	}
+	return container.New(layout.NewFormLayout(), objs...)
 }
 
 // unit puts a unit after a field.

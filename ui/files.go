@@ -49,7 +49,10 @@ func (ws *Workspace) addRecent(path string) {
 // NewScene replaces the scene by a perfect crystal (after asking about
 // unsaved changes).
 func (ws *Workspace) NewScene() {
-	ws.confirmDiscard(func() { ws.ctrl.Replace(newScene(), "", false) })
+	ws.confirmDiscard(func() {
+		ws.untitled = "new scene"
+		ws.ctrl.Replace(newScene(), "", false)
+	})
 }
 
 // OpenDialog asks for a scene file and opens it.

@@ -53,11 +53,14 @@ type imageView struct {
 	res     *Result
 	stale   bool
 	onLine  []func(final bool)
+	// autoLine: the line is the default one across the middle, which
+	// follows the field until the user draws or clears a line.
+	autoLine bool
 }
 
 // imagesPanel returns the image view.
 func imagesPanel(ws *Workspace) fyne.CanvasObject {
-	v := &imageView{ws: ws, vp: &viewport{fitted: true}, gLabel: "g", mapping: greyChoices[0].m}
+	v := &imageView{ws: ws, vp: &viewport{fitted: true}, gLabel: "g", mapping: greyChoices[0].m, autoLine: true}
 	ws.view = v
 	v.BF = newImagePanel(v, "BF")
 	v.DF = newImagePanel(v, "DF")
@@ -89,7 +92,10 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 	fit := widget.NewButtonWithIcon("", theme.ZoomFitIcon(), func() { v.fit() })
 	zin := widget.NewButtonWithIcon("", theme.ZoomInIcon(), func() { v.zoomBy(1.25) })
 	zout := widget.NewButtonWithIcon("", theme.ZoomOutIcon(), func() { v.zoomBy(1 / 1.25) })
-	clear := widget.NewButton("Clear line", func() { v.setLine(profileLine{}, true) })
+	clear := widget.NewButton("Clear line", func() {
+		v.autoLine = false
+		v.setLine(profileLine{}, true)
+	})
 
 	bar := container.NewHBox(
 		widget.NewLabel("Grey"), v.Grey, v.Invert,
@@ -110,7 +116,11 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 		}
 		if st != nil {
 			v.gLabel = "g = " + export.Indices(st.Scene.Diffraction.G)
-			if v.vp.setField(st.Scene.Image.WidthNm, st.Scene.Image.HeightNm) {
+			w := st.Scene.Image.WidthNm
+			if v.autoLine {
+				v.line = profileLine{X0: -0.45 * w, X1: 0.45 * w, Set: true}
+			}
+			if v.vp.setField(w, st.Scene.Image.HeightNm) {
 				v.refreshAll()
 			}
 		}
@@ -119,6 +129,15 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 }
 
 func (v *imageView) lineTool() bool { return v.Tool.Selected == toolLine }
+
+// toggleTool switches between panning and drawing the profile line.
+func (v *imageView) toggleTool() {
+	if v.lineTool() {
+		v.Tool.SetSelected(toolPan)
+	} else {
+		v.Tool.SetSelected(toolLine)
+	}
+}
 
 // show puts a render on the panels.
 func (v *imageView) show(r *Result) {

@@ -255,12 +255,12 @@ func micrographPanel(ws *Workspace) fyne.CanvasObject {
 	}
 
 	fields.Add(form(
-		widget.NewLabel("Pixel size"), unit(px, "nm per pixel"),
-		widget.NewLabel("g direction"), unit(angle, "° counter-clockwise from →"),
-		widget.NewLabel("Centre offset"), container.NewGridWithColumns(2, unit(offX, "x"), unit(offY, "y nm")),
-		widget.NewLabel("Show"), show,
-		widget.NewLabel("Blend with"), blendWith,
-		widget.NewLabel("Micrograph weight"), weight,
+		formRow("Pixel size", unit(px, "nm per pixel")),
+		formRow("g direction", unit(angle, "° counter-clockwise from →")),
+		formRow("Centre offset", container.NewGridWithColumns(2, unit(offX, "x"), unit(offY, "y nm"))),
+		formRow("Show", show),
+		formRow("Blend with", blendWith),
+		formRow("Micrograph weight", weight),
 	))
 	fields.Add(errl)
 	note := widget.NewLabel("The micrograph is turned so that its g points right, as in the simulated images, and drawn at its pixel size on the same scale.")

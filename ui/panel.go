@@ -75,6 +75,7 @@ func (p *imagePanel) Dragged(e *fyne.DragEvent) {
 			p.dragStartX, p.dragStartY = vp.toNm(e.Position.Subtract(e.Dragged))
 		}
 		x, y := vp.toNm(e.Position)
+		p.view.autoLine = false
 		p.view.setLine(profileLine{X0: p.dragStartX, Y0: p.dragStartY, X1: x, Y1: y, Set: true}, false)
 		return
 	}

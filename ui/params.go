@@ -196,8 +196,8 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		container.NewVBox(
 			widget.NewLabel("Excess line beyond the g spot (offset) and 000 to g\n(spacing), both in one unit on the pattern:"),
 			form(
-				widget.NewLabel("Offset"), container.NewVBox(p.KikOffset, board.label("diffraction.deviation_from_kikuchi.offset")),
-				widget.NewLabel("Spacing"), container.NewVBox(p.KikSpacing, board.label("diffraction.deviation_from_kikuchi.spacing")),
+				formRow("Offset", p.KikOffset, board.label("diffraction.deviation_from_kikuchi.offset")),
+				formRow("Spacing", p.KikSpacing, board.label("diffraction.deviation_from_kikuchi.spacing")),
 			),
 			board.label("diffraction.deviation_from_kikuchi")),
 	}
@@ -285,8 +285,8 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		form(
 			formRow("g (hkl)", p.G, board.label("diffraction.g")),
 			formRow("Beam B [uvw]", p.Beam, board.label("diffraction.beam")),
-			formRow("Pick g", p.Reflections, nil),
-			formRow("Deviation", p.Deviation, nil),
+			formRow("Pick g", p.Reflections),
+			formRow("Deviation", p.Deviation),
 		),
 		devStack,
 		board.label("diffraction"),
@@ -344,9 +344,9 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	pxInfo.Importance = widget.LowImportance
 	imageBox := form(
 		formRow("Field", container.NewGridWithColumns(2, unit(width, "×"), unit(height, "nm")),
-			container.NewVBox(board.label("image.width_nm"), board.label("image.height_nm"))),
+			board.label("image.width_nm"), board.label("image.height_nm")),
 		formRow("Pixels", container.NewGridWithColumns(2, unit(nx, "×"), unit(ny, "")), board.label("image.pixels")),
-		formRow("", pxInfo, nil),
+		formRow("", pxInfo),
 		formRow("Blur σ", unit(blur, "nm"), board.label("image.blur_nm")),
 	)
 

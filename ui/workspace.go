@@ -33,6 +33,7 @@ type Workspace struct {
 	onMicrograph []func()
 	content      fyne.CanvasObject
 	lastError    error // of showError with no window (tests)
+	untitled     string // the name of a scene with no file
 }
 
 // NewWorkspace builds the panels for a controller whose results arrive
@@ -106,7 +107,10 @@ func (ws *Workspace) updateTitle() {
 	if ws.win == nil {
 		return
 	}
-	name := "untitled scene"
+	name := ws.untitled
+	if name == "" {
+		name = "untitled scene"
+	}
 	if p := ws.ctrl.Path(); p != "" {
 		name = filepath.Base(p)
 	}

@@ -28,6 +28,9 @@ func cmdRender(ctx context.Context, args []string, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	for _, n := range st.Notes {
+		fmt.Fprintln(stderr, "note: "+n)
+	}
 	start := time.Now()
 	im, err := export.Render(ctx, st, sim.Options{Progress: progress(stderr, "render")})
 	if err != nil {
