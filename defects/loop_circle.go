@@ -36,7 +36,7 @@ func (l *Loop) near(q r3.Vec) r3.Vec {
 	}
 	ep := r3.Cross(l.n, er)
 
-	S := (r+rho)*(r+rho) + h*h  // largest distance², to the far side
+	S := (r+rho)*(r+rho) + h*h   // largest distance², to the far side
 	R12 := (r-rho)*(r-rho) + h*h // smallest distance², to the near side
 	m := 4 * r * rho / S
 	mc := R12 / S

@@ -88,10 +88,9 @@ func TestLoopNearEdgeIsStraight(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		mid := r3.Scale(0.5, r3.Add(l.levels[0].verts[0], l.levels[0].verts[1]))
-		u := l.levels[0].tang[0]
-		at := r3.Add(c, mid)
-		out := r3.Unit(mid)
+		// The point of the circle along a1, where the line runs along a2.
+		out, u := l.a1, l.a2
+		at := r3.Add(c, r3.Scale(l.radius, out))
 		for _, d := range []float64{1, 2, 4} {
 			for _, ang := range []float64{0.3, 1.9, 3.5, 5.0} {
 				dir := r3.Add(r3.Scale(math.Cos(ang), out), r3.Scale(math.Sin(ang), tc.n))

@@ -17,7 +17,7 @@ const (
 	// DefaultTolerance is the phase tolerance in cycles. With it the exit
 	// intensities agree with a converged solution to better than 1e-4 of
 	// the incident beam (TestAccuracyAgainstConverged).
-	DefaultTolerance = 1e-4
+	DefaultTolerance = 5e-5
 	// minSlabNm is the smallest slab: it only matters within a few
 	// hundredths of a nanometre of a dislocation core, where the elastic
 	// field itself is not meaningful.

@@ -38,7 +38,7 @@
 // exp(2πi n Δγ); a cavity (reported by a Voider) is a slab of vacuum.
 //
 // Step control: a slab is accepted when |δ| at both nodes is at most the
-// tolerance (DefaultTolerance, 1e-4 cycles), with the indicator scaled up
+// tolerance (DefaultTolerance, 5e-5 cycles), with the indicator scaled up
 // when the slab holds more than half a cycle of the beam's beat frequency.
 // With the default the exit intensities agree with a converged fixed-step
 // solution to better than 1e-4 of the incident intensity

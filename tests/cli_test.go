@@ -284,3 +284,18 @@ func TestEveryDefectKindRenders(t *testing.T) {
 		}
 	}
 }
+
+// A scene whose CIF file is broken names the file's line in its one error
+// line, and exits 2.
+func TestBadCIF(t *testing.T) {
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, "broken.cif"), []byte("data_x\n_cell_length_a 4.0\n_cell_length_b 4.0\nloop_\n_atom_site_label\n_atom_site_type_symbol\n_atom_site_fract_x\n_atom_site_fract_y\n_atom_site_fract_z\nNa1 Na 0 0 0\n"), 0o644)
+	text := strings.Replace(goodScene, `"material": "Cu"`, `"cif": "broken.cif", "elastic": {"shear_gpa": 20, "poisson": 0.3}`, 1)
+	p := filepath.Join(dir, "scene.json")
+	os.WriteFile(p, []byte(text), 0o644)
+	_, stderr, code := cli(t, "render", p, "-o", t.TempDir())
+	if code != 2 || !strings.HasPrefix(stderr, "error: crystal.cif: ") || strings.Count(stderr, "\n") != 1 {
+		t.Errorf("exit %d, stderr %q", code, stderr)
+	}
+	t.Logf("%s", stderr)
+}

@@ -305,6 +305,9 @@ func (c *Controller) start(st *scene.Setup) {
 				}
 			})
 		}
+		if ctx.Err() != nil {
+			return
+		}
 		t0 := time.Now()
 		im, err := render(ctx, st, sim.Options{Workers: workers, Progress: progress})
 		if ctx.Err() != nil {
