@@ -13,181 +13,8 @@ import (
 // image frame.
 func (st *Setup) buildDefects() (defects.Sum, error) {
 	var sum defects.Sum
-	cell := st.Crystal.Cell
-	needMedium := func(path string) (defects.Medium, error) {
-		if !st.Crystal.HasElastic {
-			return defects.Medium{}, fieldErr("crystal.elastic", "needed by %s: give {c11, c12, c44} (cubic), {c11, c12, c13, c33, c44} (hexagonal), {cij} or {shear_gpa, poisson}", path)
-		}
-		return st.medium(), nil
-	}
-	burgers := func(path, text string) (r3.Vec, error) {
-		uvw, err := cell.Burgers(text)
-		if err != nil {
-			return r3.Vec{}, wrapErr(path, err)
-		}
-		return st.ImageVector(uvw), nil
-	}
-	direction := func(path string, v []float64) (r3.Vec, error) {
-		uvw, err := cell.DirectionIndices(v)
-		if err != nil {
-			return r3.Vec{}, wrapErr(path, err)
-		}
-		return st.ImageVector(uvw), nil
-	}
-	planeNormal := func(path string, v []float64) (r3.Vec, error) {
-		hkl, err := cell.PlaneIndices(v)
-		if err != nil {
-			return r3.Vec{}, wrapErr(path, err)
-		}
-		return st.rotate(cell.Reciprocal(hkl)), nil
-	}
 	for i := range st.Scene.Defects {
-		d := &st.Scene.Defects[i]
-		path := fmt.Sprintf("defects[%d]", i)
-		at := r3.Vec{}
-		if len(d.AtNm) == 3 {
-			at = r3.Vec{X: d.AtNm[0], Y: d.AtNm[1], Z: d.AtNm[2]}
-		}
-		var (
-			f   defects.Field
-			err error
-		)
-		switch d.Type {
-		case "dislocation":
-			m, err := needMedium(path)
-			if err != nil {
-				return nil, err
-			}
-			b, err := burgers(path+".b", d.B)
-			if err != nil {
-				return nil, err
-			}
-			line, err := direction(path+".line", d.Line)
-			if err != nil {
-				return nil, err
-			}
-			aniso := st.anisotropic(d, m)
-			if d.Elasticity == "anisotropic" && m.C == nil {
-				return nil, fieldErr(path+".elasticity", "anisotropic needs the full elastic constants of the crystal, and it has only {shear_gpa, poisson}")
-			}
-			dis, err := defects.NewDislocation(b, line, at, m, aniso)
-			if err != nil {
-				return nil, defectErr(path, err)
-			}
-			f = dis
-		case "fault":
-			n, err := planeNormal(path+".plane", d.Plane)
-			if err != nil {
-				return nil, err
-			}
-			shift, err := burgers(path+".shift", d.Shift)
-			if err != nil {
-				return nil, err
-			}
-			if d.Edge == nil {
-				if f, err = defects.NewFault(at, n, shift); err != nil {
-					return nil, defectErr(path, err)
-				}
-				break
-			}
-			edge, err := direction(path+".edge", d.Edge)
-			if err != nil {
-				return nil, err
-			}
-			if math.Abs(r3.Dot(r3.Unit(edge), r3.Unit(n))) > 1e-6 {
-				return nil, fieldErr(path+".edge", "%s does not lie in the fault plane %s", fmtIdx(d.Edge), fmtIdx(d.Plane))
-			}
-			if f, err = defects.NewBoundedFault(at, n, shift, edge, d.BoundsNm[0], d.BoundsNm[1]); err != nil {
-				return nil, defectErr(path, err)
-			}
-		case "dissociated":
-			m, err := needMedium(path)
-			if err != nil {
-				return nil, err
-			}
-			b, err := burgers(path+".b", d.B)
-			if err != nil {
-				return nil, err
-			}
-			b1, err := burgers(path+".partials[0]", d.Partials[0])
-			if err != nil {
-				return nil, err
-			}
-			b2, err := burgers(path+".partials[1]", d.Partials[1])
-			if err != nil {
-				return nil, err
-			}
-			line, err := direction(path+".line", d.Line)
-			if err != nil {
-				return nil, err
-			}
-			n, err := planeNormal(path+".plane", d.Plane)
-			if err != nil {
-				return nil, err
-			}
-			if err := st.checkDissociation(path, d); err != nil {
-				return nil, err
-			}
-			if d.Elasticity == "anisotropic" && m.C == nil {
-				return nil, fieldErr(path+".elasticity", "anisotropic needs the full elastic constants of the crystal, and it has only {shear_gpa, poisson}")
-			}
-			aniso := st.anisotropic(d, m)
-			var sep float64
-			if d.SeparationNm != nil {
-				sep = *d.SeparationNm
-			} else {
-				if sep, err = defects.SeparationFromSFE(b1, b2, line, m, *d.SFEmJm2, aniso); err != nil {
-					return nil, defectErr(path, err)
-				}
-				kind := "isotropic"
-				if aniso {
-					kind = "anisotropic"
-				}
-				st.Notes = append(st.Notes, fmt.Sprintf("%s: partial separation %.2f nm from the stacking-fault energy %g mJ/m² (%s elasticity)", path, sep, *d.SFEmJm2, kind))
-			}
-			if f, err = defects.NewDissociated(b, b1, b2, line, at, n, sep, m, aniso); err != nil {
-				return nil, defectErr(path, err)
-			}
-		case "loop":
-			m, err := needMedium(path)
-			if err != nil {
-				return nil, err
-			}
-			b, err := burgers(path+".b", d.B)
-			if err != nil {
-				return nil, err
-			}
-			n, err := direction(path+".normal", d.Normal)
-			if err != nil {
-				return nil, err
-			}
-			if f, err = defects.NewLoop(at, n, b, *d.RadiusNm, m); err != nil {
-				return nil, defectErr(path, err)
-			}
-		case "cavity":
-			if err := st.insideFoil(path, at, *d.RadiusNm); err != nil {
-				return nil, err
-			}
-			if f, err = defects.NewCavity(at, *d.RadiusNm); err != nil {
-				return nil, defectErr(path, err)
-			}
-		case "inclusion":
-			strain := 0.0
-			if d.Strain != nil {
-				strain = *d.Strain
-			} else {
-				m, err := needMedium(path)
-				if err != nil {
-					return nil, err
-				}
-				// Ashby & Brown (1963): ε = δ(1+ν)/(3(1−ν)).
-				strain = defects.StrainFromMisfit(*d.Misfit, m.Poisson)
-				st.Notes = append(st.Notes, fmt.Sprintf("%s: misfit %g gives constrained strain ε = %.4g (ν = %.3g)", path, *d.Misfit, strain, m.Poisson))
-			}
-			if f, err = defects.NewInclusion(at, *d.RadiusNm, strain); err != nil {
-				return nil, defectErr(path, err)
-			}
-		}
+		f, err := st.buildDefect(fmt.Sprintf("defects[%d]", i), &st.Scene.Defects[i])
 		if err != nil {
 			return nil, err
 		}
@@ -196,16 +23,183 @@ func (st *Setup) buildDefects() (defects.Sum, error) {
 	return sum, nil
 }
 
+// reader turns the indices of a defect into image-frame vectors, keeping
+// the first error, so a defect reads its fields in a row and checks once.
+type reader struct {
+	st  *Setup
+	err error
+}
+
+// medium returns the elastic medium, which the defect at path needs.
+func (r *reader) medium(path string) defects.Medium {
+	if r.err != nil {
+		return defects.Medium{}
+	}
+	if !r.st.Crystal.HasElastic {
+		r.err = fieldErr("crystal.elastic", "needed by %s: give {c11, c12, c44} (cubic), {c11, c12, c13, c33, c44} (hexagonal), {cij} or {shear_gpa, poisson}", path)
+		return defects.Medium{}
+	}
+	return r.st.medium()
+}
+
+// burgers reads a Burgers vector (or fault shift) written as text and
+// returns it in nm in the image frame.
+func (r *reader) burgers(path, text string) r3.Vec {
+	if r.err != nil {
+		return r3.Vec{}
+	}
+	uvw, err := r.st.Crystal.Cell.Burgers(text)
+	if err != nil {
+		r.err = wrapErr(path, err)
+		return r3.Vec{}
+	}
+	return r.st.ImageVector(uvw)
+}
+
+// direction returns the direction [uvw] (three or four indices) in the
+// image frame.
+func (r *reader) direction(path string, v []float64) r3.Vec {
+	if r.err != nil {
+		return r3.Vec{}
+	}
+	uvw, err := r.st.Crystal.Cell.DirectionIndices(v)
+	if err != nil {
+		r.err = wrapErr(path, err)
+		return r3.Vec{}
+	}
+	return r.st.ImageVector(uvw)
+}
+
+// planeNormal returns the normal of the plane (hkl) in the image frame.
+func (r *reader) planeNormal(path string, v []float64) r3.Vec {
+	if r.err != nil {
+		return r3.Vec{}
+	}
+	hkl, err := r.st.Crystal.Cell.PlaneIndices(v)
+	if err != nil {
+		r.err = wrapErr(path, err)
+		return r3.Vec{}
+	}
+	return r.st.rotate(r.st.Crystal.Cell.Reciprocal(hkl))
+}
+
 // anisotropic tells whether a dislocation uses Stroh's anisotropic field:
 // as asked, or by default wherever the full elastic constants are known.
-func (st *Setup) anisotropic(d *Defect, m defects.Medium) bool {
+func (r *reader) anisotropic(path string, d *Defect, m defects.Medium) bool {
+	if r.err != nil {
+		return false
+	}
 	switch d.Elasticity {
 	case "anisotropic":
+		if m.C == nil {
+			r.err = fieldErr(path+".elasticity", "anisotropic needs the full elastic constants of the crystal, and it has only {shear_gpa, poisson}")
+		}
 		return true
 	case "isotropic":
 		return false
 	}
 	return m.C != nil
+}
+
+// buildDefect makes the displacement field of one defect.
+func (st *Setup) buildDefect(path string, d *Defect) (defects.Field, error) {
+	at := r3.Vec{}
+	if len(d.AtNm) == 3 {
+		at = r3.Vec{X: d.AtNm[0], Y: d.AtNm[1], Z: d.AtNm[2]}
+	}
+	var (
+		f   defects.Field
+		err error
+	)
+	rd := &reader{st: st}
+	switch d.Type {
+	case "dislocation":
+		m := rd.medium(path)
+		b := rd.burgers(path+".b", d.B)
+		line := rd.direction(path+".line", d.Line)
+		aniso := rd.anisotropic(path, d, m)
+		if rd.err != nil {
+			return nil, rd.err
+		}
+		f, err = defects.NewDislocation(b, line, at, m, aniso)
+	case "fault":
+		n := rd.planeNormal(path+".plane", d.Plane)
+		shift := rd.burgers(path+".shift", d.Shift)
+		if rd.err != nil {
+			return nil, rd.err
+		}
+		if d.Edge == nil {
+			f, err = defects.NewFault(at, n, shift)
+			break
+		}
+		edge := rd.direction(path+".edge", d.Edge)
+		if rd.err != nil {
+			return nil, rd.err
+		}
+		if math.Abs(r3.Dot(r3.Unit(edge), r3.Unit(n))) > 1e-6 {
+			return nil, fieldErr(path+".edge", "%s does not lie in the fault plane %s", fmtIdx(d.Edge), fmtIdx(d.Plane))
+		}
+		f, err = defects.NewBoundedFault(at, n, shift, edge, d.BoundsNm[0], d.BoundsNm[1])
+	case "dissociated":
+		if err := st.checkDissociation(path, d); err != nil {
+			return nil, err
+		}
+		m := rd.medium(path)
+		b := rd.burgers(path+".b", d.B)
+		b1 := rd.burgers(path+".partials[0]", d.Partials[0])
+		b2 := rd.burgers(path+".partials[1]", d.Partials[1])
+		line := rd.direction(path+".line", d.Line)
+		n := rd.planeNormal(path+".plane", d.Plane)
+		aniso := rd.anisotropic(path, d, m)
+		if rd.err != nil {
+			return nil, rd.err
+		}
+		var sep float64
+		if d.SeparationNm != nil {
+			sep = *d.SeparationNm
+		} else {
+			if sep, err = defects.SeparationFromSFE(b1, b2, line, m, *d.SFEmJm2, aniso); err != nil {
+				return nil, defectErr(path, err)
+			}
+			kind := "isotropic"
+			if aniso {
+				kind = "anisotropic"
+			}
+			st.Notes = append(st.Notes, fmt.Sprintf("%s: partial separation %.2f nm from the stacking-fault energy %g mJ/m² (%s elasticity)", path, sep, *d.SFEmJm2, kind))
+		}
+		f, err = defects.NewDissociated(b, b1, b2, line, at, n, sep, m, aniso)
+	case "loop":
+		m := rd.medium(path)
+		b := rd.burgers(path+".b", d.B)
+		n := rd.direction(path+".normal", d.Normal)
+		if rd.err != nil {
+			return nil, rd.err
+		}
+		f, err = defects.NewLoop(at, n, b, *d.RadiusNm, m)
+	case "cavity":
+		if err := st.insideFoil(path, at, *d.RadiusNm); err != nil {
+			return nil, err
+		}
+		f, err = defects.NewCavity(at, *d.RadiusNm)
+	case "inclusion":
+		strain := 0.0
+		if d.Strain != nil {
+			strain = *d.Strain
+		} else {
+			m := rd.medium(path)
+			if rd.err != nil {
+				return nil, rd.err
+			}
+			// Ashby & Brown (1963): ε = δ(1+ν)/(3(1−ν)).
+			strain = defects.StrainFromMisfit(*d.Misfit, m.Poisson)
+			st.Notes = append(st.Notes, fmt.Sprintf("%s: misfit %g gives constrained strain ε = %.4g (ν = %.3g)", path, *d.Misfit, strain, m.Poisson))
+		}
+		f, err = defects.NewInclusion(at, *d.RadiusNm, strain)
+	}
+	if err != nil {
+		return nil, defectErr(path, err)
+	}
+	return f, nil
 }
 
 // insideFoil checks that a sphere lies inside the foil: its distance from
