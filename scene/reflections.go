@@ -5,7 +5,8 @@ import "math"
 // Reflection is one g of the zone with the excitation error and w it has in
 // the scene's orientation.
 type Reflection struct {
-	HKL          [3]float64 `json:"hkl"`
+	// HKL is g as three indices, or as four (hkil) for a hexagonal cell.
+	HKL          []float64 `json:"hkl"`
 	DNm          float64    `json:"d_nm"`
 	FgNm         float64    `json:"fg_nm"`                   // |F_g|, nm (with the relativistic factor)
 	ExtinctionNm *float64   `json:"extinction_nm,omitempty"` // nil when forbidden
@@ -60,7 +61,12 @@ func (st *Setup) reflection(hkl [3]float64, forbidden bool) Reflection {
 	h2 := h.X*h.X + h.Y*h.Y + h.Z*h.Z
 	lam := st.WavelengthNm
 	s := hg/(st.GPerNm*st.GPerNm)*(st.SPerNm+lam*st.GPerNm*st.GPerNm/2) - lam*h2/2
-	r := Reflection{HKL: hkl, DNm: 1 / math.Sqrt(h2), SPerNm: s, Forbidden: forbidden}
+	r := Reflection{HKL: hkl[:], DNm: 1 / math.Sqrt(h2), SPerNm: s, Forbidden: forbidden}
+	if cell.IsHexagonal() {
+		if four, err := cell.FourIndexPlane(hkl); err == nil {
+			r.HKL = four[:]
+		}
+	}
 	r.FgNm = cmplxAbs(st.Crystal.StructureFactor(hkl, st.VoltageKV))
 	// A forbidden (or unreachable) reflection has no extinction distance.
 	if xi, err := st.Crystal.ExtinctionDistance(hkl, st.VoltageKV); err == nil {

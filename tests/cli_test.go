@@ -299,3 +299,43 @@ func TestBadCIF(t *testing.T) {
 	}
 	t.Logf("%s", stderr)
 }
+
+// Bad crystal input from the command line: each exits 2 with the field
+// named.
+func TestBadCrystalInput(t *testing.T) {
+	cell := `"cell": {"a_nm": 0.36, "b_nm": 0.36, "c_nm": 0.36, "alpha_deg": 90, "beta_deg": 90, "gamma_deg": 90}, "centering": "F", "elastic": {"shear_gpa": 40, "poisson": 0.3}`
+	for _, c := range []struct{ crystal, g, want string }{
+		{cell + `, "atoms": [{"element": "Xx", "xyz": [0, 0, 0]}]`, `[2, 0, 0]`, "crystal.atoms"},
+		{cell + `, "atoms": [{"element": "Cu", "xyz": [0, 0, 0], "occupancy": 1.5}]`, `[2, 0, 0]`, "crystal.atoms[0].occupancy: 1.5"},
+		{strings.Replace(cell, `"gamma_deg": 90`, `"gamma_deg": 200`, 1) + `, "atoms": [{"element": "Cu", "xyz": [0, 0, 0]}]`, `[2, 0, 0]`, "crystal.cell"},
+		{`"material": "Mg"`, `[1, 1, -1, 0]`, "diffraction.g"},
+	} {
+		text := strings.Replace(goodScene, `"material": "Cu"`, c.crystal, 1)
+		text = strings.Replace(text, `"g": [2, 0, 0]`, `"g": `+c.g, 1)
+		if strings.Contains(c.crystal, "Mg") {
+			text = strings.Replace(text, `"beam": [0, 0, 1]`, `"beam": [0, 0, 0, 1]`, 1)
+		}
+		_, stderr, code := cli(t, "reflections", writeScene(t, text))
+		if code != 2 || !strings.HasPrefix(stderr, "error: "+c.want) || strings.Count(stderr, "\n") != 1 {
+			t.Errorf("%s: exit %d, stderr %q, want %q", c.want, code, stderr, c.want)
+		}
+	}
+	// Hexagonal reflections come back in four-index form.
+	mg := strings.Replace(strings.Replace(strings.Replace(goodScene, `"material": "Cu"`, `"material": "Mg"`, 1),
+		`"g": [2, 0, 0], "beam": [0, 0, 1]`, `"g": [1, 1, -2, 0], "beam": [0, 0, 0, 1]`, 1), `"b": "1/2[1 1 0]", "line": [1, -1, 0]`, `"b": "1/3[1 1 -2 0]", "line": [1, -1, 0, 0]`, 1)
+	stdout, stderr, code := cli(t, "reflections", writeScene(t, mg), "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var out struct {
+		Reflections []struct {
+			HKL []float64 `json:"hkl"`
+		} `json:"reflections"`
+	}
+	json.Unmarshal([]byte(stdout), &out)
+	for _, r := range out.Reflections {
+		if len(r.HKL) != 4 || r.HKL[2] != -(r.HKL[0]+r.HKL[1]) {
+			t.Fatalf("reflection %v is not four-index hkil", r.HKL)
+		}
+	}
+}

@@ -110,10 +110,10 @@ func cmdReflections(args []string, stdout io.Writer) error {
 			mark = "  <- g of the scene"
 		}
 		if r.Forbidden {
-			fmt.Fprintf(stdout, "%-14s %9.4f %12s %10.4f %9s%s\n", export.Indices(r.HKL[:]), r.DNm, "forbidden", r.SPerNm, "-", mark)
+			fmt.Fprintf(stdout, "%-14s %9.4f %12s %10.4f %9s%s\n", export.Indices(r.HKL), r.DNm, "forbidden", r.SPerNm, "-", mark)
 			continue
 		}
-		fmt.Fprintf(stdout, "%-14s %9.4f %12.2f %10.4f %9.2f%s\n", export.Indices(r.HKL[:]), r.DNm, *r.ExtinctionNm, r.SPerNm, *r.W, mark)
+		fmt.Fprintf(stdout, "%-14s %9.4f %12.2f %10.4f %9.2f%s\n", export.Indices(r.HKL), r.DNm, *r.ExtinctionNm, r.SPerNm, *r.W, mark)
 	}
 	return nil
 }
