@@ -7,12 +7,12 @@ import "math"
 type Reflection struct {
 	// HKL is g as three indices, or as four (hkil) for a hexagonal cell.
 	HKL          []float64 `json:"hkl"`
-	DNm          float64    `json:"d_nm"`
-	FgNm         float64    `json:"fg_nm"`                   // |F_g|, nm (with the relativistic factor)
-	ExtinctionNm *float64   `json:"extinction_nm,omitempty"` // nil when forbidden
-	SPerNm       float64    `json:"s_per_nm"`
-	W            *float64   `json:"w,omitempty"` // nil when forbidden
-	Forbidden    bool       `json:"forbidden"`
+	DNm          float64   `json:"d_nm"`
+	FgNm         float64   `json:"fg_nm"`                   // |F_g|, nm (with the relativistic factor)
+	ExtinctionNm *float64  `json:"extinction_nm,omitempty"` // nil when forbidden
+	SPerNm       float64   `json:"s_per_nm"`
+	W            *float64  `json:"w,omitempty"` // nil when forbidden
+	Forbidden    bool      `json:"forbidden"`
 }
 
 // ZoneLimitFactor is the default |g| limit of Reflections, in units of the
