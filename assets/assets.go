@@ -4,10 +4,11 @@ package assets
 
 import _ "embed"
 
-// DemoScene is the built-in demo: a foil of a made-up nickel alloy, imaged
-// in g = 200 near [011] at 200 kV, holding a mixed dislocation inclined
-// through the foil, a small coherent precipitate with a negative misfit,
-// and an intrinsic stacking fault on (1 1 1) crossing the foil.
+// DemoScene is the built-in demo: a foil of a made-up low-stacking-fault-
+// energy nickel alloy (20 mJ/m²), imaged in g = 200 near [011] at 200 kV:
+// a dislocation split into Shockley partials with its faulted ribbon
+// inclined through the foil, a small coherent precipitate with a negative
+// misfit, and a perfect mixed dislocation.
 //
 //go:embed demo.json
 var DemoScene []byte
