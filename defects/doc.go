@@ -99,8 +99,11 @@
 // field of its bounding partials. Inclusion: Ashby & Brown, Phil. Mag. 8
 // (1963) 1083: R = ε r inside, ε r0³ r/r³ outside, ε = δ(1+ν)/(3(1−ν)) from
 // the free misfit δ (Eshelby 1957). Loop: Burgers' formula (Burgers 1939;
-// Hirth & Lothe 1982, §4-4) over equal-area polygons, isotropic only (see
-// Loop for the formula and accuracy). Cavity: no crystal inside (Voids), no
+// Hirth & Lothe 1982, §4-4) evaluated in closed form for the circle
+// (complete elliptic integrals; the solid angle after Paxton 1959, with
+// Bulirsch's 1969 algorithm for the third kind), blended smoothly into a
+// second-moment multipole far field beyond six radii; isotropic only (see
+// Loop for the formulas and accuracy). Cavity: no crystal inside (Voids), no
 // displacement.
 //
 // # Stiffness rotation

@@ -16,12 +16,13 @@ const loopMinDistNm = 1e-3
 // Loop), at q relative to the centre.
 func (l *Loop) near(q r3.Vec) r3.Vec {
 	r := l.radius
-	h := r3.Dot(q, l.n)
-	qp := r3.Sub(q, r3.Scale(h, l.n))
-	rho := r3.Norm(qp)
+	// In-plane coordinates from the in-plane axes, so that ê_ρ lies in
+	// the plane however close p is to the axis.
+	h, x1, x2 := r3.Dot(q, l.n), r3.Dot(q, l.a1), r3.Dot(q, l.a2)
+	rho := math.Sqrt(x1*x1 + x2*x2)
 	er := l.a1
 	if rho > 0 {
-		er = r3.Scale(1/rho, qp)
+		er = r3.Add(r3.Scale(x1/rho, l.a1), r3.Scale(x2/rho, l.a2))
 	}
 	// Hold the point at least loopMinDistNm (and a relative 1e-6) from the
 	// line, keeping its direction about the line.
@@ -122,9 +123,9 @@ func bulirschCel(kc, p, a, b float64) float64 {
 	p = math.Sqrt(p)
 	b /= p
 	for {
-		f := a
-		a += b / p
-		g := e / p
+		f, ip := a, 1/p
+		a += b * ip
+		g := e * ip
 		b += f * g
 		b += b
 		p += g
