@@ -63,6 +63,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 		err = cmdProfile(ctx, args[1:], stdout)
 	case "reflections":
 		err = cmdReflections(args[1:], stdout)
+	case "plan", "identify", "fit":
+		err = usageError{fmt.Sprintf("%s is not built yet; this version has render, profile and reflections", args[0])}
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return exitOK
