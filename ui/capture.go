@@ -25,7 +25,6 @@ func (ws *Workspace) Capture() image.Image {
 	size := WindowSize
 	if ws.win != nil {
 		size = size.Max(ws.win.Canvas().Size())
-		println("DEBUG canvas", ws.win.Canvas().Size().Width, ws.win.Canvas().Size().Height, ws.win.Canvas().Scale(), ws.content.MinSize().Height)
 	}
 	c := software.NewCanvas()
 	c.SetContent(ws.content)

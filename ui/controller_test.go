@@ -4,12 +4,15 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"math"
 	"os"
 	"path/filepath"
 	"testing"
 	"time"
 
+	"faultline/export"
 	"faultline/scene"
+	"faultline/sim"
 )
 
 // A newer change cancels the render in flight through its context, and
@@ -23,7 +26,7 @@ func TestSupersededRenderIsCancelled(t *testing.T) {
 	var delivered []*Result
 	c.OnResult(func(r *Result) { delivered = append(delivered, r) })
 
-	c.Replace(demoScene(t), "", true)
+	c.Replace(testScene(t), "", true)
 	p.until(t, 5*time.Second, "the first render to start", func() bool { return fr.calls() == 1 })
 	_, first := fr.last()
 
@@ -69,19 +72,25 @@ func TestPreviewThenFull(t *testing.T) {
 	c.Render = fr.render
 	var got []*Result
 	c.OnResult(func(r *Result) { got = append(got, r) })
-	c.Replace(demoScene(t), "", true)
+	c.Replace(testScene(t), "", true)
 	p.until(t, 5*time.Second, "the full render", func() bool { return c.LastFull() != nil })
 	if len(got) != 2 || !got[0].Preview || got[1].Preview {
 		t.Fatalf("results %d (preview flags %v), want a preview then a full render", len(got), flags(got))
 	}
 	pg, fg := got[0].Image.Grid, got[1].Image.Grid
-	// The demo is 200 × 200 pixels; the preview has DefaultPreviewPixels
-	// on its longer side, over the same field.
-	if pg.NX != DefaultPreviewPixels || pg.NY != DefaultPreviewPixels {
-		t.Errorf("preview grid %d × %d, want %d × %d", pg.NX, pg.NY, DefaultPreviewPixels, DefaultPreviewPixels)
+	// The test scene is 100 × 100 pixels over a square field; the first preview
+	// has startPreviewPixels on a side, over the same field.
+	if pg.NX != startPreviewPixels || pg.NY != startPreviewPixels {
+		t.Errorf("preview grid %d × %d, want %d × %d", pg.NX, pg.NY, startPreviewPixels, startPreviewPixels)
 	}
-	if fg.NX != 200 || fg.NY != 200 {
-		t.Errorf("full grid %d × %d, want 200 × 200 (the scene's pixels)", fg.NX, fg.NY)
+	if tol := got[0].Setup.Problem.Tolerance; tol != PreviewTolerance {
+		t.Errorf("preview tolerance %g, want %g", tol, PreviewTolerance)
+	}
+	if tol := got[1].Setup.Problem.Tolerance; tol != 0 {
+		t.Errorf("full render tolerance %g, want the default (0)", tol)
+	}
+	if fg.NX != 100 || fg.NY != 100 {
+		t.Errorf("full grid %d × %d, want 100 × 100 (the scene's pixels)", fg.NX, fg.NY)
 	}
 	if pg.WidthNm != fg.WidthNm || pg.HeightNm != fg.HeightNm {
 		t.Errorf("preview field %g × %g nm, full %g × %g nm: want the same field", pg.WidthNm, pg.HeightNm, fg.WidthNm, fg.HeightNm)
@@ -103,7 +112,7 @@ func TestInvalidEditStartsNoRender(t *testing.T) {
 	fr := &fakeRender{}
 	c := NewController(p.post)
 	c.Render = fr.render
-	c.Replace(demoScene(t), "", true)
+	c.Replace(testScene(t), "", true)
 	p.until(t, 5*time.Second, "the first full render", func() bool { return c.LastFull() != nil })
 	n := fr.calls()
 	err := c.Edit(func(sc *scene.Scene) { sc.Foil.ThicknessNm = -5 })
@@ -207,7 +216,7 @@ func TestFailedSaveKeepsFile(t *testing.T) {
 	p := newPump()
 	c := NewController(p.post)
 	c.Render = (&fakeRender{}).render
-	c.Replace(demoScene(t), "", true)
+	c.Replace(testScene(t), "", true)
 	if err := c.SaveAs(path); err != nil {
 		t.Fatal(err)
 	}
@@ -224,7 +233,7 @@ func TestFailedSaveKeepsFile(t *testing.T) {
 }
 
 func TestPreviewSetup(t *testing.T) {
-	sc := demoScene(t)
+	sc := testScene(t)
 	sc.Image = scene.Image{WidthNm: 300, HeightNm: 150, Pixels: []int{400, 200}}
 	st, err := scene.Build(sc, ".")
 	if err != nil {
@@ -240,5 +249,87 @@ func TestPreviewSetup(t *testing.T) {
 	}
 	if previewSetup(st, 500) != nil {
 		t.Error("a preview larger than the image was made")
+	}
+}
+
+// Changes made while a preview is being rendered wait for it: the preview
+// is shown, the changes in between are skipped, and the newest change is
+// rendered next, preview and full.
+func TestChangesDuringPreviewAreCoalesced(t *testing.T) {
+	p := newPump()
+	fr := &fakeRender{delay: 40 * time.Millisecond}
+	c := NewController(p.post)
+	c.Render = fr.render
+	var shown []*Result
+	c.OnResult(func(r *Result) { shown = append(shown, r) })
+	c.Replace(testScene(t), "", true)
+	p.until(t, 5*time.Second, "the first full render", func() bool { return c.LastFull() != nil })
+	shown = nil
+	n := fr.calls()
+
+	// Five moves within the first preview's 40 ms.
+	var gens []uint64
+	for k := 0; k < 5; k++ {
+		tNm := 90 + float64(k)
+		c.Edit(func(sc *scene.Scene) { sc.Foil.ThicknessNm = tNm })
+		gens = append(gens, c.Gen())
+	}
+	p.until(t, 5*time.Second, "the full render of the last move", func() bool {
+		r := c.LastFull()
+		return r != nil && r.Gen == gens[4]
+	})
+	if len(shown) != 3 || !shown[0].Preview || shown[0].Gen != gens[0] || !shown[1].Preview || shown[1].Gen != gens[4] || shown[2].Preview {
+		for _, r := range shown {
+			t.Logf("shown: change %d preview %v thickness %g", r.Gen, r.Preview, r.Setup.Scene.Foil.ThicknessNm)
+		}
+		t.Fatalf("want the preview of the first move, then the preview and full render of the last (changes %v)", gens)
+	}
+	if got := shown[2].Setup.Scene.Foil.ThicknessNm; got != 94 {
+		t.Errorf("full render of thickness %g, want 94", got)
+	}
+	// Renders asked for: the first preview, then the last preview and
+	// full render; neither the moves in between nor the first move's full
+	// render.
+	var got []float64
+	for _, st := range fr.setup[n:] {
+		got = append(got, st.Scene.Foil.ThicknessNm)
+	}
+	if len(got) != 3 || got[0] != 90 || got[1] != 94 || got[2] != 94 {
+		t.Errorf("renders of thicknesses %v, want [90 94 94]", got)
+	}
+}
+
+// The preview's looser phase tolerance keeps the intensities close to the
+// converged render: within 3e-3 of the incident beam on a dislocation
+// (the claim of PreviewTolerance; the converged render, at
+// sim.DefaultTolerance, is the reference).
+func TestPreviewToleranceAccuracy(t *testing.T) {
+	sc := testScene(t)
+	sc.Image.Pixels = []int{24, 24}
+	st, err := scene.Build(sc, ".")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ref, err := export.Render(context.Background(), st, sim.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	loose := *st
+	p := *st.Problem
+	p.Tolerance = PreviewTolerance
+	loose.Problem = &p
+	got, err := export.Render(context.Background(), &loose, sim.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	worst := 0.0
+	for k := range ref.Intensity {
+		for i := range ref.Intensity[k] {
+			worst = math.Max(worst, math.Abs(got.Intensity[k][i]-ref.Intensity[k][i]))
+		}
+	}
+	t.Logf("largest difference at tolerance %g: %.2g of the incident beam", PreviewTolerance, worst)
+	if worst > 3e-3 {
+		t.Errorf("preview tolerance changes an intensity by %.3g, want ≤ 3e-3", worst)
 	}
 }

@@ -99,7 +99,6 @@ type defectsPanel struct {
 	errIdx   int // defect the build error is about, or −1
 	binder   *binder
 	formFor  int // defect index the form shows, −1 for none
-	formType string
 }
 
 var defectPath = regexp.MustCompile(`^defects\[(\d+)\]`)
@@ -305,7 +304,6 @@ func (dp *defectsPanel) buildForm() {
 	}
 	dp.formFor = i
 	d := sc.Defects[i]
-	dp.formType = d.Type
 	dp.Header.SetText(fmt.Sprintf("Defect %d", i+1))
 	path := fmt.Sprintf("defects[%d]", i)
 	b := &binder{c: ws.ctrl, board: ws.board}
@@ -389,7 +387,7 @@ func (dp *defectsPanel) buildForm() {
 					}
 					d.AtNm[k] = v
 				})
-			entries[k] = unit(e, name)
+			entries[k] = container.NewBorder(nil, nil, widget.NewLabel(name), nil, e)
 		}
 		addRow("Position", "at_nm", container.NewVBox(container.NewGridWithColumns(3, entries...),
 			widget.NewLabelWithStyle("nm; x along g, y down the image, z depth below the entrance surface", fyne.TextAlignLeading, fyne.TextStyle{Italic: true})))
@@ -465,12 +463,12 @@ func (dp *defectsPanel) buildForm() {
 	switch d.Type {
 	case "dislocation":
 		burgers("Burgers vector b", "b", func(d *scene.Defect) *string { return &d.B })
-		indices("Line direction u", "line", func(d *scene.Defect) *[]float64 { return &d.Line })
+		indices("Line u [uvw]", "line", func(d *scene.Defect) *[]float64 { return &d.Line })
 		position()
 		elasticity()
 	case "dissociated":
 		burgers("Total b", "b", func(d *scene.Defect) *string { return &d.B })
-		indices("Line direction u", "line", func(d *scene.Defect) *[]float64 { return &d.Line })
+		indices("Line u [uvw]", "line", func(d *scene.Defect) *[]float64 { return &d.Line })
 		indices("Glide plane (hkl)", "plane", func(d *scene.Defect) *[]float64 { return &d.Plane })
 		for k := 0; k < 2; k++ {
 			k := k

@@ -13,10 +13,12 @@
 //
 //   - Controller holds the scene, its file and saved state, and schedules
 //     renders: each change builds the scene and, if it builds, starts a
-//     coarse preview followed by the full render on a goroutine of its own;
-//     a newer change cancels the render in flight through its context.
-//     Results come back to the UI goroutine through Controller.Post
-//     (fyne.Do in the program).
+//     coarse preview followed by the full render on a goroutine of its own.
+//     A newer change cancels the render in flight through its context; if
+//     that render is still on its preview (a few tens of milliseconds), the
+//     change waits for it, so a slider dragged without pause shows a new
+//     preview every preview time instead of none. Results come back to the
+//     UI goroutine through Controller.Post (fyne.Do in the program).
 //   - The panels (params.go, defects.go, imageview.go, profile.go,
 //     micrograph.go, status.go) are functions that return a
 //     fyne.CanvasObject wired to a Controller.

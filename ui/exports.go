@@ -163,9 +163,9 @@ func (ws *Workspace) ExportFigureDialog() {
 	}
 	size := widget.NewSelect(sizes, nil)
 	size.SetSelected(sizes[0])
-	note := widget.NewLabel("Grey: " + export.MappingNote(ws.view.mapping))
+	note := widget.NewLabel(export.MappingNote(ws.view.mapping))
 	note.Wrapping = fyne.TextWrapWord
-	note.Importance = widget.LowImportance
+	note.TextStyle = fyne.TextStyle{Italic: true}
 	items := []*widget.FormItem{
 		widget.NewFormItem("Images", panels),
 		widget.NewFormItem("Caption", caption),

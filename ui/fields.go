@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 	"unicode"
@@ -84,9 +83,6 @@ func (b *errorBoard) setLocal(path, msg string) {
 	}
 	b.refresh()
 }
-
-// hasLocal reports whether some field holds text that does not parse.
-func (b *errorBoard) hasLocal() bool { return len(b.local) > 0 }
 
 // setBuild shows the error of the last build (nil: none).
 func (b *errorBoard) setBuild(err error) {
@@ -170,16 +166,6 @@ func setError(l *widget.Label, msg string) {
 	l.Show()
 }
 
-// localPaths lists the fields holding text that does not parse.
-func (b *errorBoard) localPaths() []string {
-	out := make([]string, 0, len(b.local))
-	for p := range b.local {
-		out = append(out, p)
-	}
-	sort.Strings(out)
-	return out
-}
-
 // row is one line of a form: a label and what it labels.
 type row [2]fyne.CanvasObject
 
@@ -205,12 +191,6 @@ func form(rows ...row) *fyne.Container {
 // unit puts a unit after a field.
 func unit(field fyne.CanvasObject, u string) fyne.CanvasObject {
 	return container.NewBorder(nil, nil, nil, widget.NewLabel(u), field)
-}
-
-// section is a titled group of fields.
-func section(title string, content fyne.CanvasObject) fyne.CanvasObject {
-	t := widget.NewLabelWithStyle(title, fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
-	return container.NewVBox(t, content)
 }
 
 // Parsing of typed text.

@@ -129,7 +129,10 @@ func (ws *Workspace) confirmDiscard(then func()) {
 		then()
 		return
 	}
-	name := "The scene"
+	name := "The " + ws.untitled
+	if ws.untitled == "" {
+		name = "The scene"
+	}
 	if p := ws.ctrl.Path(); p != "" {
 		name = filepath.Base(p)
 	}
@@ -218,13 +221,6 @@ func (ws *Workspace) showError(err error) {
 		return
 	}
 	dialog.ShowError(err, ws.win)
-}
-
-func (ws *Workspace) showInfo(title, msg string) {
-	if ws.win == nil {
-		return
-	}
-	dialog.ShowInformation(title, msg, ws.win)
 }
 
 // newScene is the scene of File > New: a perfect copper foil in a

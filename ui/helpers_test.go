@@ -6,6 +6,7 @@ import (
 	"testing"
 	"time"
 
+	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/test"
 
 	"faultline/assets"
@@ -23,7 +24,7 @@ func (p *pump) post(f func()) { p.ch <- f }
 
 // until runs posted functions until cond holds, failing the test after
 // timeout.
-func (p *pump) until(t *testing.T, timeout time.Duration, what string, cond func() bool) {
+func (p *pump) until(t testing.TB, timeout time.Duration, what string, cond func() bool) {
 	t.Helper()
 	deadline := time.After(timeout)
 	tick := time.NewTicker(2 * time.Millisecond)
@@ -58,6 +59,7 @@ func (p *pump) drain(d time.Duration) {
 type fakeRender struct {
 	mu    sync.Mutex
 	block bool
+	delay time.Duration // time each render takes (unless cancelled)
 	setup []*scene.Setup
 	ctx   []context.Context
 }
@@ -66,11 +68,18 @@ func (f *fakeRender) render(ctx context.Context, st *scene.Setup, _ sim.Options)
 	f.mu.Lock()
 	f.setup = append(f.setup, st)
 	f.ctx = append(f.ctx, ctx)
-	block := f.block
+	block, delay := f.block, f.delay
 	f.mu.Unlock()
 	if block {
 		<-ctx.Done()
 		return nil, ctx.Err()
+	}
+	if delay > 0 {
+		select {
+		case <-time.After(delay):
+		case <-ctx.Done():
+			return nil, ctx.Err()
+		}
 	}
 	g := st.Problem.Grid
 	bf, df := make([]float64, g.NX*g.NY), make([]float64, g.NX*g.NY)
@@ -119,8 +128,31 @@ func demoScene(t testing.TB) *scene.Scene {
 	return sc
 }
 
+// testSceneJSON is the scene of the widget tests (the demo scene may be
+// changed for its looks; these tests rely on the values here).
+const testSceneJSON = `{
+  "version": 1,
+  "crystal": {"material": "Ni"},
+  "microscope": {"voltage_kv": 200},
+  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], "s_per_nm": 0.005, "model": "two-beam"},
+  "foil": {"thickness_nm": 110},
+  "defects": [
+    {"type": "dislocation", "b": "1/2[0 1 1]", "line": [1, 1, 1], "at_nm": [0, 0, 55]}
+  ],
+  "image": {"width_nm": 200, "height_nm": 200, "pixels": [100, 100]}
+}`
+
+func testScene(t testing.TB) *scene.Scene {
+	t.Helper()
+	sc, err := scene.Parse([]byte(testSceneJSON))
+	if err != nil {
+		t.Fatalf("test scene: %v", err)
+	}
+	return sc
+}
+
 // newTestWorkspace is a workspace on Fyne's test app with the given
-// renderer, holding the demo scene; the first render has been delivered.
+// renderer, holding the test scene; the first render has been delivered.
 func newTestWorkspace(t *testing.T, r RenderFunc) (*Workspace, *pump) {
 	t.Helper()
 	a := test.NewApp()
@@ -128,7 +160,10 @@ func newTestWorkspace(t *testing.T, r RenderFunc) (*Workspace, *pump) {
 	p := newPump()
 	ws := NewWorkspace(a, nil, p.post)
 	ws.ctrl.Render = r
-	ws.ctrl.Replace(demoScene(t), "", true)
+	ws.ctrl.Replace(testScene(t), "", true)
 	p.until(t, 10*time.Second, "the first full render", func() bool { return ws.ctrl.LastFull() != nil })
 	return ws, p
 }
+
+func fyneSize(w, h float32) fyne.Size    { return fyne.NewSize(w, h) }
+func fynePos(x, y float32) fyne.Position { return fyne.NewPos(x, y) }

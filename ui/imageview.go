@@ -20,9 +20,9 @@ var greyChoices = []struct {
 	name string
 	m    figure.Mapping
 }{
-	{"Stretch, clip 0.5 %", figure.Mapping{Mode: figure.ModeAuto, ClipPercent: 0.5}},
-	{"Stretch to range", figure.Mapping{Mode: figure.ModeAuto}},
-	{"Fixed: white = incident beam", figure.Mapping{Mode: figure.ModeFixed}},
+	{"Stretch, 0.5 % clipped", figure.Mapping{Mode: figure.ModeAuto, ClipPercent: 0.5}},
+	{"Stretch, full range", figure.Mapping{Mode: figure.ModeAuto}},
+	{"Fixed, incident = white", figure.Mapping{Mode: figure.ModeFixed}},
 }
 
 // Tools of the image panels.
@@ -97,12 +97,10 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 		v.setLine(profileLine{}, true)
 	})
 
-	bar := container.NewHBox(
-		widget.NewLabel("Grey"), v.Grey, v.Invert,
-		widget.NewSeparator(),
-		widget.NewLabel("Drag to"), v.Tool, clear,
-		widget.NewSeparator(),
-		zout, fit, zin,
+	bar := container.NewBorder(nil, nil,
+		container.NewHBox(widget.NewLabel("Grey"), container.NewGridWrap(fyne.NewSize(205, v.Grey.MinSize().Height), v.Grey), v.Invert, widget.NewSeparator()),
+		container.NewHBox(widget.NewSeparator(), zout, fit, zin),
+		container.NewHBox(v.Tool, clear),
 	)
 	v.Readout = widget.NewLabel(" ")
 	v.Readout.TextStyle = fyne.TextStyle{Monospace: true}
@@ -125,7 +123,7 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 			}
 		}
 	})
-	return container.NewBorder(container.NewHScroll(bar), v.Readout, nil, nil, v.grid)
+	return container.NewBorder(bar, v.Readout, nil, nil, v.grid)
 }
 
 func (v *imageView) lineTool() bool { return v.Tool.Selected == toolLine }
@@ -155,6 +153,9 @@ func (v *imageView) redraw() {
 		g := im.Grid
 		bf, df, err := export.Grays(im, v.mapping)
 		if err == nil {
+			if v.res.Preview {
+				bf, df = smoothed(bf, 256), smoothed(df, 256)
+			}
 			v.BF.src = newGridSource(bf, g.WidthNm, g.HeightNm)
 			v.DF.src = newGridSource(df, g.WidthNm, g.HeightNm)
 		}

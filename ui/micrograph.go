@@ -180,6 +180,7 @@ func micrographPanel(ws *Workspace) fyne.CanvasObject {
 	offX, offY := widget.NewEntry(), widget.NewEntry()
 	show := widget.NewRadioGroup([]string{compareOff, compareSide, compareBlend}, nil)
 	show.Required = true
+	show.Horizontal = true
 	blendWith := widget.NewRadioGroup([]string{"BF", "DF"}, nil)
 	blendWith.Horizontal = true
 	blendWith.Required = true
@@ -265,7 +266,7 @@ func micrographPanel(ws *Workspace) fyne.CanvasObject {
 	fields.Add(errl)
 	note := widget.NewLabel("The micrograph is turned so that its g points right, as in the simulated images, and drawn at its pixel size on the same scale.")
 	note.Wrapping = fyne.TextWrapWord
-	note.Importance = widget.LowImportance
+	note.TextStyle = fyne.TextStyle{Italic: true}
 	fields.Add(note)
 
 	open := widget.NewButton("Open micrograph…", func() { ws.openMicrographDialog() })

@@ -144,18 +144,18 @@ func (p *imagePanel) CreateRenderer() fyne.WidgetRenderer {
 }
 
 type panelRenderer struct {
-	p                                  *imagePanel
-	bg                                 *canvas.Rectangle
-	raster                             *canvas.Raster
-	titlePlate, tagPlate               *canvas.Rectangle
-	titleText, tagText                 *canvas.Text
-	barPlate, bar, arrowPlate          *canvas.Rectangle
-	barText, gText                     *canvas.Text
-	shaft, head1, head2                *canvas.Line
-	profile                            *canvas.Line
-	end0, end1                         *canvas.Circle
-	objects                            []fyne.CanvasObject
-	size                               fyne.Size
+	p                         *imagePanel
+	bg                        *canvas.Rectangle
+	raster                    *canvas.Raster
+	titlePlate, tagPlate      *canvas.Rectangle
+	titleText, tagText        *canvas.Text
+	barPlate, bar, arrowPlate *canvas.Rectangle
+	barText, gText            *canvas.Text
+	shaft, head1, head2       *canvas.Line
+	profile                   *canvas.Line
+	end0, end1                *canvas.Circle
+	objects                   []fyne.CanvasObject
+	size                      fyne.Size
 }
 
 func (r *panelRenderer) Destroy() {}

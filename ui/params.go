@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"path/filepath"
@@ -71,8 +72,9 @@ type paramsPanel struct {
 	Derived     *widget.Label
 	CrystalInfo *widget.Label
 	Notes       *widget.Label
+	Sections    *widget.Accordion
 
-	reflHKL map[string][3]float64
+	reflHKL map[string][]float64
 	reflKey string
 }
 
@@ -81,7 +83,7 @@ type paramsPanel struct {
 func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	b := ws.binder
 	board := ws.board
-	p := &paramsPanel{reflHKL: map[string][3]float64{}}
+	p := &paramsPanel{reflHKL: map[string][]float64{}}
 	ws.params = p
 
 	// Crystal.
@@ -95,7 +97,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	openCIF := widget.NewButton("Open CIF…", func() { ws.openCIF() })
 	p.CrystalInfo = widget.NewLabel("")
 	p.CrystalInfo.Wrapping = fyne.TextWrapWord
-	p.CrystalInfo.Importance = widget.LowImportance
+	p.CrystalInfo.TextStyle = fyne.TextStyle{Italic: true}
 	b.reader(func(sc *scene.Scene) {
 		c := sc.Crystal
 		switch {
@@ -132,8 +134,8 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		if !ok {
 			return
 		}
-		b.edit("diffraction.g", func(sc *scene.Scene) { sc.Diffraction.G = []float64{hkl[0], hkl[1], hkl[2]} })
-		b.quiet(func() { p.G.SetText(formatIndices(hkl[:])) })
+		b.edit("diffraction.g", func(sc *scene.Scene) { sc.Diffraction.G = append([]float64(nil), hkl...) })
+		b.quiet(func() { p.G.SetText(formatIndices(hkl)) })
 	})
 	p.Reflections.PlaceHolder = "(reflections of the zone B)"
 
@@ -228,7 +230,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	})
 
 	p.Derived = widget.NewLabel("")
-	p.Derived.Importance = widget.LowImportance
+	p.Derived.TextStyle = fyne.TextStyle{Italic: true}
 	p.Derived.Wrapping = fyne.TextWrapWord
 
 	// Model.
@@ -341,7 +343,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		func(sc *scene.Scene) *float64 { return sc.Image.BlurNm },
 		func(sc *scene.Scene, v *float64) { sc.Image.BlurNm = v })
 	pxInfo := widget.NewLabel("")
-	pxInfo.Importance = widget.LowImportance
+	pxInfo.TextStyle = fyne.TextStyle{Italic: true}
 	imageBox := form(
 		formRow("Field", container.NewGridWithColumns(2, unit(width, "×"), unit(height, "nm")),
 			board.label("image.width_nm"), board.label("image.height_nm")),
@@ -352,9 +354,10 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 
 	p.Notes = widget.NewLabel("")
 	p.Notes.Wrapping = fyne.TextWrapWord
-	p.Notes.Importance = widget.LowImportance
+	p.Notes.TextStyle = fyne.TextStyle{Italic: true}
 
 	ws.ctrl.OnBuilt(func(st *scene.Setup, err error) {
+		p.openSectionOf(err)
 		sc := ws.ctrl.Scene()
 		if im := sc.Image; len(im.Pixels) == 2 && im.Pixels[0] > 0 && im.Pixels[1] > 0 {
 			pxInfo.SetText(fmt.Sprintf("%.3g × %.3g nm per pixel", im.WidthNm/float64(im.Pixels[0]), im.HeightNm/float64(im.Pixels[1])))
@@ -368,20 +371,36 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		p.updateReflections(st, b)
 	})
 
-	body := container.NewVBox(
-		board.general,
-		section("Crystal", container.NewVBox(crystalBox, p.CrystalInfo)),
-		widget.NewSeparator(),
-		section("Microscope", micro),
-		widget.NewSeparator(),
-		section("Diffraction", diffraction),
-		widget.NewSeparator(),
-		section("Foil", foil),
-		widget.NewSeparator(),
-		section("Image", imageBox),
-		p.Notes,
+	// Sections fold away; the image field, set once per scene, starts
+	// folded so the conditions changed while looking fit the window.
+	acc := widget.NewAccordion(
+		widget.NewAccordionItem("Crystal and microscope", container.NewVBox(crystalBox, p.CrystalInfo, micro)),
+		widget.NewAccordionItem("Diffraction", diffraction),
+		widget.NewAccordionItem("Foil", foil),
+		widget.NewAccordionItem("Image field", container.NewVBox(imageBox, p.Notes)),
 	)
-	return container.NewVScroll(container.NewPadded(body))
+	acc.MultiOpen = true
+	acc.Open(0)
+	acc.Open(1)
+	acc.Open(2)
+	p.Sections = acc
+	body := container.NewVBox(board.general, acc)
+	return container.NewVScroll(body)
+}
+
+// openSectionOf unfolds the section holding the field an error is about.
+func (p *paramsPanel) openSectionOf(err error) {
+	var fe *scene.FieldError
+	if p.Sections == nil || !errors.As(err, &fe) {
+		return
+	}
+	for k, prefix := range []string{"crystal|microscope", "diffraction", "foil", "image"} {
+		for _, pre := range strings.Split(prefix, "|") {
+			if pathWithin(fe.Path, pre) {
+				p.Sections.Open(k)
+			}
+		}
+	}
 }
 
 const explicitCellLabel = "explicit cell (from the scene file)"
@@ -429,7 +448,7 @@ func convertDeviation(d *scene.Diffraction, k int, st *scene.Setup) {
 		// s = λ g² Δx / x with the spacing x = 1.
 		off := 0.0
 		if lg2 > 0 {
-			off = roundTo(s/lg2, 0.001)
+			off = roundTo(s/lg2, 1e-4)
 		}
 		d.Kikuchi = &scene.Kikuchi{Offset: off, Spacing: 1}
 	}
@@ -484,7 +503,7 @@ func (p *paramsPanel) updateReflections(st *scene.Setup, b *binder) {
 		p.Reflections.SetOptions(nil)
 		return
 	}
-	p.reflHKL = map[string][3]float64{}
+	p.reflHKL = map[string][]float64{}
 	opts := make([]string, 0, len(refl))
 	cur := ""
 	for i, r := range refl {
@@ -507,8 +526,7 @@ func (p *paramsPanel) updateReflections(st *scene.Setup, b *binder) {
 // reflectionLabel names a reflection in the choice of g: its indices, d
 // and ξg, or that it is forbidden.
 func reflectionLabel(st *scene.Setup, r scene.Reflection) string {
-	hkl := st.Crystal.Cell.FormatPlane(r.HKL)
-	hkl = strings.Trim(hkl, "()")
+	hkl := formatIndices(r.HKL)
 	if r.Forbidden || r.ExtinctionNm == nil {
 		return fmt.Sprintf("%s   d %.4f nm   forbidden", hkl, r.DNm)
 	}

@@ -7,6 +7,7 @@ import (
 	"image/color"
 	"io"
 	"math"
+	"strconv"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/canvas"
@@ -118,12 +119,46 @@ func plotProfile(p profile, w, h int, dpi float64) (image.Image, error) {
 	pl.Legend.Add("BF", lb)
 	pl.Legend.Add("DF", ld)
 	pl.Legend.Top = true
+	pl.Legend.Left = true
+	pl.Legend.XOffs = vg.Points(8)
 	pl.Y.Min = 0
-	pl.Y.Max = math.Max(1, pl.Y.Max)
+	// Room above the curves for the legend.
+	pl.Y.Max = 1.2 * math.Max(1, pl.Y.Max)
+	pl.X.Tick.Marker = niceTicks{}
+	pl.Y.Tick.Marker = niceTicks{}
 	pts := func(px int) vg.Length { return vg.Length(float64(px) * 72 / dpi) }
 	c := vgimg.NewWith(vgimg.UseWH(pts(w), pts(h)), vgimg.UseDPI(int(dpi)))
 	pl.Draw(draw.New(c))
 	return c.Image(), nil
+}
+
+// niceTicks labels an axis at steps of 1, 2 or 5 × 10^n, five to ten of
+// them, with unlabelled ticks between.
+type niceTicks struct{}
+
+func (niceTicks) Ticks(lo, hi float64) []plot.Tick {
+	if !(hi > lo) {
+		return []plot.Tick{{Value: lo, Label: formatNumber(lo)}}
+	}
+	raw := (hi - lo) / 6
+	p := math.Pow(10, math.Floor(math.Log10(raw)))
+	step := p
+	for _, m := range []float64{1, 2, 5, 10} {
+		if m*p >= raw {
+			step = m * p
+			break
+		}
+	}
+	var out []plot.Tick
+	minor := step / 2
+	for v := math.Ceil(lo/minor) * minor; v <= hi+minor*1e-9; v += minor {
+		t := plot.Tick{Value: v}
+		if k := v / step; math.Abs(k-math.Round(k)) < 1e-6 {
+			t.Label = strconv.FormatFloat(math.Round(k)*step, 'g', 6, 64)
+		}
+		out = append(out, t)
+	}
+	return out
 }
 
 // profilePanel is the line-profile plot under the images.
@@ -143,10 +178,9 @@ func profilePanelObject(ws *Workspace) fyne.CanvasObject {
 	pp.raster = canvas.NewRaster(pp.draw)
 	pp.raster.ScaleMode = canvas.ImageScaleSmooth
 	pp.hint = widget.NewLabel("Choose \"Profile line\" above and drag across an image to plot BF and DF along the line.")
-	pp.hint.Wrapping = fyne.TextWrapWord
-	pp.hint.Importance = widget.LowImportance
+	pp.hint.TextStyle = fyne.TextStyle{Italic: true}
 	pp.info = widget.NewLabel("")
-	pp.info.Importance = widget.LowImportance
+	pp.info.TextStyle = fyne.TextStyle{Italic: true}
 	ws.view.onLine = append(ws.view.onLine, pp.update)
 	plotBox := container.NewStack(pp.raster, container.NewCenter(pp.hint))
 	box := container.NewBorder(pp.info, nil, nil, nil, plotBox)

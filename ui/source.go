@@ -3,6 +3,8 @@ package ui
 import (
 	"image"
 	"math"
+
+	xdraw "golang.org/x/image/draw"
 )
 
 // A source is what an image panel shows: a grey level at every specimen
@@ -12,7 +14,8 @@ type source interface {
 }
 
 // gridSource is a grey image covering a field centred on the origin, one
-// image pixel per simulated column (sim.Grid's pixel centres).
+// image pixel per simulated column (sim.Grid's pixel centres), each shown
+// as a square of one grey.
 type gridSource struct {
 	img        *image.Gray
 	wNm, hNm   float64
@@ -36,6 +39,20 @@ func (s *gridSource) at(x, y float64) (uint8, bool) {
 		return 0, false
 	}
 	return s.img.Pix[j*s.img.Stride+i], true
+}
+
+// smoothed returns img enlarged by bilinear interpolation to at least
+// about minPx on its longer side, for showing a coarse preview without
+// blocks (it covers the same field, so it is shown the same way).
+func smoothed(img *image.Gray, minPx int) *image.Gray {
+	b := img.Bounds()
+	k := (minPx + max(b.Dx(), b.Dy()) - 1) / max(b.Dx(), b.Dy())
+	if k <= 1 {
+		return img
+	}
+	out := image.NewGray(image.Rect(0, 0, k*b.Dx(), k*b.Dy()))
+	xdraw.BiLinear.Scale(out, out.Bounds(), img, b, xdraw.Src, nil)
+	return out
 }
 
 // rotatedSource is a grey picture (a micrograph) with square pixels of

@@ -22,9 +22,14 @@ type statusLine struct {
 	preview time.Duration // latency of the last preview
 }
 
+const (
+	startText = "Starting…"
+	staleText = "Images show the last scene that rendered."
+)
+
 // statusPanel returns the status line.
 func statusPanel(ws *Workspace) fyne.CanvasObject {
-	s := &statusLine{Progress: widget.NewProgressBar(), Timing: widget.NewLabel("Starting…"), Message: widget.NewLabel("")}
+	s := &statusLine{Progress: widget.NewProgressBar(), Timing: widget.NewLabel(startText), Message: widget.NewLabel("")}
 	ws.status = s
 	s.Progress.Min, s.Progress.Max = 0, 1
 	s.Progress.TextFormatter = func() string { return fmt.Sprintf("%.0f %%", 100*s.Progress.Value) }
@@ -41,12 +46,15 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 			s.Message.Importance = widget.DangerImportance
 			s.Message.SetText("Not rendered: " + msg)
 			s.Progress.SetValue(0)
+			s.Timing.SetText(staleText)
 			return
 		}
 		s.Message.Importance = widget.MediumImportance
 		s.Message.SetText("")
 		s.Progress.SetValue(0)
-		s.Timing.SetText("Rendering…")
+		if s.Timing.Text == staleText || s.Timing.Text == startText {
+			s.Timing.SetText("Rendering…")
+		}
 	})
 	c.OnProgress(func(done, total int) { s.Progress.SetValue(float64(done) / float64(total)) })
 	c.OnResult(func(r *Result) {

@@ -246,9 +246,9 @@ func (ws *Workspace) showShortcuts() {
 	var b strings.Builder
 	for _, k := range order {
 		c := cmds[k]
-		fmt.Fprintf(&b, "%-10s  %s\n", shortcutText(c.key), c.label)
+		fmt.Fprintf(&b, "%-15s %s\n", shortcutText(c.key), c.label)
 	}
-	b.WriteString("\nOver the images: scroll to zoom about the pointer; drag to pan, or to draw the profile line when that tool is chosen.")
+	b.WriteString("\nOver the images: scroll to zoom about the pointer; drag to pan,\nor to draw the profile line when that tool is chosen.")
 	l := widget.NewLabel(b.String())
 	l.TextStyle = fyne.TextStyle{Monospace: true}
 	dialog.ShowCustom("Keyboard shortcuts", "Close", l, ws.win)

@@ -32,7 +32,7 @@ type Workspace struct {
 
 	onMicrograph []func()
 	content      fyne.CanvasObject
-	lastError    error // of showError with no window (tests)
+	lastError    error  // of showError with no window (tests)
 	untitled     string // the name of a scene with no file
 }
 

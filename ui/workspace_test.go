@@ -76,11 +76,17 @@ func TestSliderMoveCancelsRenderInFlight(t *testing.T) {
 	p.until(t, 5*time.Second, "the render of 120 nm", func() bool { return fr.calls() > n })
 	_, first := fr.last()
 	ws.params.Thickness.Slider.SetValue(121)
-	select {
-	case <-first.Done():
-	case <-time.After(5 * time.Second):
-		t.Fatal("render of the first move not cancelled by the second")
+	// The first move's render is a preview that never ends: the second
+	// move waits for it at most maxPreviewWait, then cancels it.
+	t0 := time.Now()
+	p.until(t, 5*time.Second, "the render of the first move to be cancelled", func() bool { return first.Err() != nil })
+	if d := time.Since(t0); d > maxPreviewWait+time.Second {
+		t.Errorf("cancelled after %v, want within about %v", d, maxPreviewWait)
 	}
+	p.until(t, 5*time.Second, "the render of the second move", func() bool {
+		st, _ := fr.last()
+		return st.Scene.Foil.ThicknessNm == 121
+	})
 	if !errors.Is(first.Err(), context.Canceled) {
 		t.Errorf("first render's context: %v, want context.Canceled", first.Err())
 	}

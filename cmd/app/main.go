@@ -14,6 +14,7 @@ import (
 	"fmt"
 	"os"
 
+	_ "faultline/cmd/app/internal/clocale" // before Fyne reads the locale
 	"faultline/ui"
 )
 
