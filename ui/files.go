@@ -58,20 +58,29 @@ func (ws *Workspace) NewScene() {
 // OpenDialog asks for a scene file and opens it.
 func (ws *Workspace) OpenDialog() {
 	ws.confirmDiscard(func() {
-		d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-			if err != nil || r == nil {
-				return
-			}
-			path := r.URI().Path()
-			r.Close()
-			ws.OpenPath(path)
-		}, ws.win)
-		d.SetFilter(storage.NewExtensionFileFilter([]string{".json", ".JSON"}))
-		if dir := ws.startDir(); dir != nil {
-			d.SetLocation(dir)
-		}
-		d.Show()
+		ws.openFileDialog([]string{".json", ".JSON"}, ws.startDir(), ws.OpenPath)
 	})
+}
+
+// openFileDialog asks for a file with one of the extensions, starting in
+// dir when it is not nil, and hands its path to use.
+func (ws *Workspace) openFileDialog(exts []string, dir fyne.ListableURI, use func(path string)) {
+	if ws.win == nil {
+		return
+	}
+	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
+		if err != nil || r == nil {
+			return
+		}
+		path := r.URI().Path()
+		r.Close()
+		use(path)
+	}, ws.win)
+	d.SetFilter(storage.NewExtensionFileFilter(exts))
+	if dir != nil {
+		d.SetLocation(dir)
+	}
+	d.Show()
 }
 
 // OpenPath opens the scene file at path, reporting a failure in a dialog.

@@ -15,7 +15,6 @@ import (
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/dialog"
-	"fyne.io/fyne/v2/storage"
 	"fyne.io/fyne/v2/widget"
 	"golang.org/x/image/tiff"
 
@@ -277,21 +276,11 @@ func micrographPanel(ws *Workspace) fyne.CanvasObject {
 
 // openMicrographDialog asks for a micrograph file.
 func (ws *Workspace) openMicrographDialog() {
-	if ws.win == nil {
-		return
-	}
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil || r == nil {
-			return
-		}
-		path := r.URI().Path()
-		r.Close()
+	ws.openFileDialog([]string{".png", ".tif", ".tiff", ".jpg", ".jpeg", ".PNG", ".TIF", ".TIFF"}, nil, func(path string) {
 		if err := ws.OpenMicrograph(path); err != nil {
 			dialog.ShowError(err, ws.win)
 		}
-	}, ws.win)
-	d.SetFilter(storage.NewExtensionFileFilter([]string{".png", ".tif", ".tiff", ".jpg", ".jpeg", ".PNG", ".TIF", ".TIFF"}))
-	d.Show()
+	})
 }
 
 // OpenMicrograph loads the micrograph at path and shows it beside the

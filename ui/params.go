@@ -9,8 +9,6 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
-	"fyne.io/fyne/v2/dialog"
-	"fyne.io/fyne/v2/storage"
 	"fyne.io/fyne/v2/widget"
 
 	"faultline/crystal"
@@ -535,19 +533,7 @@ func reflectionLabel(st *scene.Setup, r scene.Reflection) string {
 
 // openCIF asks for a CIF file and makes it the scene's crystal.
 func (ws *Workspace) openCIF() {
-	if ws.win == nil {
-		return
-	}
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil || r == nil {
-			return
-		}
-		path := r.URI().Path()
-		r.Close()
-		ws.useCIF(path)
-	}, ws.win)
-	d.SetFilter(storage.NewExtensionFileFilter([]string{".cif", ".CIF"}))
-	d.Show()
+	ws.openFileDialog([]string{".cif", ".CIF"}, nil, ws.useCIF)
 }
 
 // useCIF makes the CIF file at path the crystal: its path is kept relative
