@@ -120,11 +120,11 @@ func (ws *Workspace) ExportProfile(path string) error {
 	}
 	var buf bytes.Buffer
 	if l := ws.view.line; l.Set && l.lengthNm() > 0 {
-		p := sampleProfile(im, l)
+		p := export.SampleLine(im, l.line())
 		if len(p.DistNm) == 0 {
 			return errors.New("the profile line lies outside the simulated field")
 		}
-		err = writeProfileCSV(&buf, p)
+		err = export.WriteLineProfile(&buf, p)
 	} else {
 		err = export.WriteProfile(&buf, im, 0)
 	}

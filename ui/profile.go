@@ -1,11 +1,9 @@
 package ui
 
 import (
-	"bufio"
 	"fmt"
 	"image"
 	"image/color"
-	"io"
 	"math"
 	"strconv"
 
@@ -19,7 +17,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 
-	"faultline/sim"
+	"faultline/export"
 )
 
 // profileLine is a straight line across the images, from (X0, Y0) to
@@ -29,64 +27,10 @@ type profileLine struct {
 	Set            bool
 }
 
-func (l profileLine) lengthNm() float64 { return math.Hypot(l.X1-l.X0, l.Y1-l.Y0) }
+func (l profileLine) lengthNm() float64 { return l.line().LengthNm() }
 
-// profile is the bright and dark field sampled along a line.
-type profile struct {
-	DistNm, XNm, YNm []float64
-	BF, DF           []float64
-}
-
-// sampleProfile samples both beams along l, about two samples per pixel,
-// interpolating bilinearly between pixel centres (a point beyond the
-// outermost centres takes the edge value). Points outside the field are
-// left out.
-func sampleProfile(im *sim.Image, l profileLine) profile {
-	g := im.Grid
-	dx, dy := g.WidthNm/float64(g.NX), g.HeightNm/float64(g.NY)
-	length := l.lengthNm()
-	n := max(2, int(math.Ceil(2*length/math.Min(dx, dy)))+1)
-	var p profile
-	bf, df := im.BF(), im.DF()
-	for k := 0; k < n; k++ {
-		t := float64(k) / float64(n-1)
-		x := l.X0 + t*(l.X1-l.X0)
-		y := l.Y0 + t*(l.Y1-l.Y0)
-		if math.Abs(x) > g.WidthNm/2 || math.Abs(y) > g.HeightNm/2 {
-			continue
-		}
-		p.DistNm = append(p.DistNm, t*length)
-		p.XNm = append(p.XNm, x)
-		p.YNm = append(p.YNm, y)
-		p.BF = append(p.BF, bilinear(bf, g, x, y))
-		p.DF = append(p.DF, bilinear(df, g, x, y))
-	}
-	return p
-}
-
-// bilinear interpolates a plane of g at (x, y) nm between pixel centres.
-func bilinear(plane []float64, g sim.Grid, x, y float64) float64 {
-	fi := x/g.WidthNm*float64(g.NX) + float64(g.NX)/2 - 0.5
-	fj := y/g.HeightNm*float64(g.NY) + float64(g.NY)/2 - 0.5
-	fi = clamp(fi, 0, float64(g.NX-1))
-	fj = clamp(fj, 0, float64(g.NY-1))
-	i0, j0 := int(fi), int(fj)
-	i1, j1 := min(i0+1, g.NX-1), min(j0+1, g.NY-1)
-	ti, tj := fi-float64(i0), fj-float64(j0)
-	at := func(i, j int) float64 { return plane[j*g.NX+i] }
-	return (1-tj)*((1-ti)*at(i0, j0)+ti*at(i1, j0)) + tj*((1-ti)*at(i0, j1)+ti*at(i1, j1))
-}
-
-// writeProfileCSV writes a profile as CSV with the header
-// distance_nm,x_nm,y_nm,bf,df.
-func writeProfileCSV(w io.Writer, p profile) error {
-	bw := bufio.NewWriter(w)
-	fmt.Fprintln(bw, "distance_nm,x_nm,y_nm,bf,df")
-	for k := range p.DistNm {
-		fmt.Fprintf(bw, "%.6g,%.6g,%.6g,%.8g,%.8g\n", p.DistNm[k], p.XNm[k], p.YNm[k], p.BF[k], p.DF[k])
-	}
-	return bw.Flush()
-}
+// line is the geometry of l for the export package.
+func (l profileLine) line() export.Line { return export.Line{X0: l.X0, Y0: l.Y0, X1: l.X1, Y1: l.Y1} }
 
 // Colours of the two beams in the plot.
 var (
@@ -95,7 +39,7 @@ var (
 )
 
 // plotProfile draws the profile into a w × h pixel image at dpi.
-func plotProfile(p profile, w, h int, dpi float64) (image.Image, error) {
+func plotProfile(p export.LineProfile, w, h int, dpi float64) (image.Image, error) {
 	pl := plot.New()
 	pl.X.Label.Text = "distance along the line (nm)"
 	pl.Y.Label.Text = "intensity / incident"
@@ -167,7 +111,7 @@ type profilePanel struct {
 	raster *canvas.Raster
 	hint   *widget.Label
 	info   *widget.Label
-	cur    profile
+	cur    export.LineProfile
 	have   bool
 }
 
@@ -198,7 +142,7 @@ func (pp *profilePanel) update(final bool) {
 		pp.raster.Refresh()
 		return
 	}
-	pp.cur = sampleProfile(v.res.Image, v.line)
+	pp.cur = export.SampleLine(v.res.Image, v.line.line())
 	pp.have = len(pp.cur.DistNm) >= 2
 	if pp.have {
 		pp.hint.Hide()

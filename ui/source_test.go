@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"faultline/export"
 	"image"
 	"math"
 	"testing"
@@ -104,7 +105,7 @@ func TestProfileOfRamp(t *testing.T) {
 	}
 	im := &sim.Image{Grid: g, Beams: []int{0, 1}, Intensity: [][]float64{bf, df}}
 	l := profileLine{X0: -30, Y0: -20, X1: 35, Y1: 25, Set: true}
-	p := sampleProfile(im, l)
+	p := export.SampleLine(im, l.line())
 	if len(p.DistNm) < 2*int(l.lengthNm()/2) {
 		t.Fatalf("%d samples over %g nm with 2 nm pixels, want about two per pixel", len(p.DistNm), l.lengthNm())
 	}
@@ -118,7 +119,7 @@ func TestProfileOfRamp(t *testing.T) {
 		}
 	}
 	// A line leaving the field keeps only the points inside it.
-	out := sampleProfile(im, profileLine{X0: 0, Y0: 0, X1: 100, Y1: 0, Set: true})
+	out := export.SampleLine(im, profileLine{X0: 0, Y0: 0, X1: 100, Y1: 0, Set: true}.line())
 	for k := range out.XNm {
 		if out.XNm[k] > g.WidthNm/2 {
 			t.Fatalf("sample at x = %g nm, outside the %g nm field", out.XNm[k], g.WidthNm)
