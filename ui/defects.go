@@ -94,6 +94,9 @@ type defectsPanel struct {
 	Remove    *widget.Button
 	Form      *fyne.Container
 	Header    *widget.Label
+	// Derived shows what the library derived for the selected defect (the
+	// partial separation from a fault energy, the strain from a misfit).
+	Derived *widget.Label
 
 	selected int
 	errIdx   int // defect the build error is about, or −1
@@ -154,6 +157,8 @@ func defectsPanelObject(ws *Workspace) fyne.CanvasObject {
 	dp.Remove = widget.NewButtonWithIcon("Remove", theme.ContentRemoveIcon(), func() { dp.remove() })
 	dp.Form = container.NewVBox()
 	dp.Header = widget.NewLabel("")
+	dp.Derived = widget.NewLabelWithStyle("", fyne.TextAlignLeading, fyne.TextStyle{Italic: true})
+	dp.Derived.Wrapping = fyne.TextWrapWord
 	dp.Header.Wrapping = fyne.TextWrapWord
 
 	ws.ctrl.OnReplaced(func() {
@@ -177,6 +182,7 @@ func defectsPanelObject(ws *Workspace) fyne.CanvasObject {
 		dp.errIdx = idx
 		dp.List.Refresh()
 		dp.updateButtons()
+		dp.showDerived(st)
 	})
 
 	general := ws.board.label("defects")
@@ -186,8 +192,22 @@ func defectsPanelObject(ws *Workspace) fyne.CanvasObject {
 		buttons,
 	)
 	list := container.New(minHeight(170), dp.List)
-	editor := container.NewVScroll(container.NewPadded(container.NewVBox(dp.Header, general, dp.Form)))
+	editor := container.NewVScroll(container.NewPadded(container.NewVBox(dp.Header, general, dp.Form, dp.Derived)))
 	return container.NewBorder(container.NewVBox(top, list, widget.NewSeparator()), nil, nil, nil, editor)
+}
+
+// showDerived shows the notes of st about the selected defect.
+func (dp *defectsPanel) showDerived(st *scene.Setup) {
+	var lines []string
+	if st != nil && dp.selected >= 0 {
+		prefix := fmt.Sprintf("defects[%d]: ", dp.selected)
+		for _, n := range st.Notes {
+			if strings.HasPrefix(n, prefix) {
+				lines = append(lines, strings.TrimPrefix(n, prefix))
+			}
+		}
+	}
+	dp.Derived.SetText(strings.Join(lines, "\n"))
 }
 
 // defectSummary is the list line of defect i.
@@ -289,6 +309,7 @@ func (dp *defectsPanel) buildForm() {
 	ws := dp.ws
 	ws.board.drop("defects[")
 	dp.Form.RemoveAll()
+	dp.showDerived(ws.ctrl.Setup())
 	dp.updateButtons()
 	sc := ws.ctrl.Scene()
 	i := dp.selected
