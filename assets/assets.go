@@ -18,3 +18,11 @@ var DemoScene []byte
 //
 //go:embed icon.png
 var Icon []byte
+
+// DemoMicrograph is an invented 16-bit bright-field micrograph for trying
+// the micrograph view: the demo scene simulated at s = 0.006 /nm with g
+// pointing 30° above the horizontal, 1.25 nm per pixel, blurred and with
+// shot noise (made by assets/internal/mkmicrograph).
+//
+//go:embed demo_micrograph.png
+var DemoMicrograph []byte

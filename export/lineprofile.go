@@ -45,14 +45,15 @@ func SampleLine(im *sim.Image, l Line) LineProfile {
 		p.DistNm = append(p.DistNm, t*length)
 		p.XNm = append(p.XNm, x)
 		p.YNm = append(p.YNm, y)
-		p.BF = append(p.BF, bilinear(bf, g, x, y))
-		p.DF = append(p.DF, bilinear(df, g, x, y))
+		p.BF = append(p.BF, Interpolate(bf, g, x, y))
+		p.DF = append(p.DF, Interpolate(df, g, x, y))
 	}
 	return p
 }
 
-// bilinear interpolates a plane of g at (x, y) nm between pixel centres.
-func bilinear(plane []float64, g sim.Grid, x, y float64) float64 {
+// Interpolate returns a plane of grid g at (x, y) nm, bilinear between
+// pixel centres; beyond the outermost centres it takes the edge value.
+func Interpolate(plane []float64, g sim.Grid, x, y float64) float64 {
 	fi := x/g.WidthNm*float64(g.NX) + float64(g.NX)/2 - 0.5
 	fj := y/g.HeightNm*float64(g.NY) + float64(g.NY)/2 - 0.5
 	fi = math.Max(0, math.Min(fi, float64(g.NX-1)))

@@ -41,3 +41,13 @@ func perfect(st *scene.Setup) []float64 {
 	p.Field = nil
 	return p.Column(0, 0)
 }
+
+// mustMarshal returns the scene of a setup as JSON text.
+func mustMarshal(t testing.TB, st *scene.Setup) string {
+	t.Helper()
+	data, err := scene.Marshal(st.Scene)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(data)
+}

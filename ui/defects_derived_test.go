@@ -26,3 +26,14 @@ func TestDerivedSeparationShown(t *testing.T) {
 		t.Errorf("derived text %q", ws.defects.Derived.Text)
 	}
 }
+
+func TestOpenDemoMicrograph(t *testing.T) {
+	ws, _ := newTestWorkspace(t, (&fakeRender{}).render)
+	if err := ws.OpenDemoMicrograph(); err != nil {
+		t.Fatal(err)
+	}
+	m := ws.micro
+	if m == nil || m.NmPerPx != 1.25 || m.GAngleDeg != 30 || m.nx != 240 || m.ny != 240 {
+		t.Fatalf("demo micrograph %+v", m)
+	}
+}

@@ -3,6 +3,7 @@ package ui
 import (
 	"bytes"
 	"errors"
+	"faultline/assets"
 	"fmt"
 	"image"
 	"image/color"
@@ -291,19 +292,48 @@ func (ws *Workspace) OpenMicrograph(path string) error {
 	if err != nil {
 		return err
 	}
-	if old := ws.micro; old != nil && old.nx == m.nx && old.ny == m.ny {
+	ws.showMicrograph(m, true)
+	return nil
+}
+
+// Geometry of the built-in demo micrograph (see assets.DemoMicrograph).
+const (
+	demoMicrographNmPerPx = 1.25
+	demoMicrographGDeg    = 30
+)
+
+// OpenDemoMicrograph shows the invented micrograph that ships with the
+// program, with its pixel size and direction of g set.
+func (ws *Workspace) OpenDemoMicrograph() error {
+	m, err := decodeMicrograph(assets.DemoMicrograph)
+	if err != nil {
+		return fmt.Errorf("demo micrograph: %w", err)
+	}
+	m.Name = "demo (invented)"
+	m.NmPerPx, m.GAngleDeg = demoMicrographNmPerPx, demoMicrographGDeg
+	ws.showMicrograph(m, false)
+	return nil
+}
+
+// showMicrograph makes m the micrograph beside the simulation. With
+// keepGeometry, a micrograph of the same size as the one shown keeps its
+// pixel size, direction and offset; otherwise a new one starts spanning
+// the simulated field, unless m has its pixel size already.
+func (ws *Workspace) showMicrograph(m *micrograph, keepGeometry bool) {
+	if old := ws.micro; keepGeometry && old != nil && old.nx == m.nx && old.ny == m.ny {
 		m.NmPerPx, m.GAngleDeg, m.OffXNm, m.OffYNm = old.NmPerPx, old.GAngleDeg, old.OffXNm, old.OffYNm
 	} else {
 		w := 100.0
 		if sc := ws.ctrl.Scene(); sc != nil && sc.Image.WidthNm > 0 {
 			w = sc.Image.WidthNm
 		}
-		m.NmPerPx = w / float64(m.nx)
+		if m.NmPerPx == 0 {
+			m.NmPerPx = w / float64(m.nx)
+		}
 	}
 	ws.micro = m
 	for _, f := range ws.onMicrograph {
 		f()
 	}
 	ws.view.redraw()
-	return nil
 }

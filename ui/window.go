@@ -227,6 +227,11 @@ func (ws *Workspace) mainMenu() *fyne.MainMenu {
 		ws.item("save"), ws.item("saveas"),
 		fyne.NewMenuItemSeparator(),
 		ws.item("micro"),
+		fyne.NewMenuItem("Open the demo micrograph", func() {
+			if err := ws.OpenDemoMicrograph(); err != nil {
+				ws.showError(err)
+			}
+		}),
 		fyne.NewMenuItemSeparator(),
 		ws.item("figure"), ws.item("tiff"), ws.item("profile"),
 		fyne.NewMenuItemSeparator(),
