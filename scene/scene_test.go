@@ -100,6 +100,8 @@ func TestFieldErrors(t *testing.T) {
 		{`{"version": 1} {}`, "unexpected data"},
 		{`[1, 2]`, "must be a JSON object"},
 		{replace(t, `"thickness_nm": 120`, `"thickness_nm": [120]`), "foil.thickness_nm: is array, want a number"},
+		{replace(t, `"at_nm": [0, 0, 60]`, `"at_nm": [0, 1e300, 60]`), "defects[0].at_nm: [0 1e+300 60]: more than 1e+06 nm"},
+		{replace(t, `"thickness_nm": 120`, `"thickness_nm": 1e9`), "foil.thickness_nm: 1e+09 nm: more than"},
 	} {
 		_, err := Parse([]byte(c.text))
 		if err == nil || !strings.Contains(err.Error(), c.want) || !errors.Is(err, ErrInvalid) {

@@ -235,6 +235,11 @@ func (d *Defect) validate(path string) error {
 	if d.AtNm != nil && (len(d.AtNm) != 3 || !allFinite(d.AtNm)) {
 		return fieldErr(path+".at_nm", "%v: needs three finite coordinates x, y, z in nm", d.AtNm)
 	}
+	for _, v := range d.AtNm {
+		if math.Abs(v) > MaxLengthNm {
+			return fieldErr(path+".at_nm", "%v: more than %g nm (1 mm) from the image centre", d.AtNm, MaxLengthNm)
+		}
+	}
 	for _, f := range []struct {
 		name string
 		v    []float64
@@ -249,8 +254,8 @@ func (d *Defect) validate(path string) error {
 			return fieldErr(path+"."+f.name, "is the zero vector")
 		}
 	}
-	if d.RadiusNm != nil && !(*d.RadiusNm > 0 && finite(*d.RadiusNm)) {
-		return fieldErr(path+".radius_nm", "%g nm: must be positive", *d.RadiusNm)
+	if d.RadiusNm != nil && !(*d.RadiusNm > 0 && *d.RadiusNm <= MaxLengthNm) {
+		return fieldErr(path+".radius_nm", "%g nm: must be positive and at most %g nm", *d.RadiusNm, MaxLengthNm)
 	}
 	switch d.Type {
 	case "inclusion":
@@ -320,7 +325,15 @@ func (im *Image) validate(path string) error {
 	return nil
 }
 
+// MaxLengthNm bounds every length in a scene (positions, sizes, the
+// field of view, the thickness): 1 mm, far beyond any TEM specimen, so that
+// no field is evaluated where its arithmetic overflows.
+const MaxLengthNm = 1e6
+
 func positive(path string, v float64) error {
+	if v > MaxLengthNm {
+		return fieldErr(path, "%g nm: more than %g nm (1 mm)", v, MaxLengthNm)
+	}
 	if !(v > 0) || math.IsInf(v, 0) {
 		if v == 0 {
 			return fieldErr(path, "missing or zero; must be positive")

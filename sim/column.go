@@ -174,6 +174,12 @@ func (c *column) segment(a, b, ga float64) float64 {
 			if cyc := c.st.Beat(d/h) * h; cyc > beatCycles {
 				err *= (cyc / beatCycles) * (cyc / beatCycles)
 			}
+			if math.IsNaN(err) || math.IsInf(err, 0) {
+				// The field is not finite here: poison the amplitudes so
+				// Render reports the column, and stop.
+				c.psi[0] = complex(math.NaN(), 0)
+				return math.NaN()
+			}
 			if err <= c.tol || h <= minSlabNm {
 				break
 			}

@@ -17,6 +17,11 @@ import (
 // result of a many-beam render well under a gigabyte.
 const MaxPixels = 4096 * 4096
 
+// ErrNonFinite is wrapped by the error of a render in which some column's
+// intensity came out NaN or infinite (a field evaluated where it is not
+// finite), so no silent NaN reaches an image.
+var ErrNonFinite = errors.New("non-finite result")
+
 // Problem is everything the integrator needs: plain numbers in the image
 // frame (x along g, z along the beam into the foil, y = z × x), no crystal
 // and no files.
@@ -130,10 +135,12 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 		workers = rows
 	}
 	var (
-		next atomic.Int64
-		mu   sync.Mutex
-		done int
-		wg   sync.WaitGroup
+		bad      sync.Mutex
+		badPixel = -1
+		next     atomic.Int64
+		mu       sync.Mutex
+		done     int
+		wg       sync.WaitGroup
 	)
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
@@ -152,7 +159,15 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 				for i := 0; i < g.NX; i++ {
 					c.run(g.X(i), y)
 					for k := range beams {
-						im.Intensity[k][j*g.NX+i] = c.out[k]
+						v := c.out[k]
+						if math.IsNaN(v) || math.IsInf(v, 0) {
+							bad.Lock()
+							if n := j*g.NX + i; badPixel < 0 || n < badPixel {
+								badPixel = n
+							}
+							bad.Unlock()
+						}
+						im.Intensity[k][j*g.NX+i] = v
 					}
 				}
 				if opt.Progress != nil {
@@ -167,6 +182,10 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 	wg.Wait()
 	if err := ctx.Err(); err != nil {
 		return nil, err
+	}
+	if badPixel >= 0 {
+		i, j := badPixel%g.NX, badPixel/g.NX
+		return nil, fmt.Errorf("%w: column (%g, %g) nm gave a non-finite intensity; a defect's field is not finite there", ErrNonFinite, g.X(i), g.Y(j))
 	}
 	return im, nil
 }

@@ -4,7 +4,10 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strings"
 	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
 )
 
 func TestRenderIsDeterministicAcrossWorkers(t *testing.T) {
@@ -76,5 +79,23 @@ func TestValidateRejects(t *testing.T) {
 		if err := p.Validate(); err == nil {
 			t.Errorf("%s: no error", name)
 		}
+	}
+}
+
+type nanField struct{}
+
+func (nanField) R(p r3.Vec) r3.Vec {
+	if p.X > 0 && p.Y > 0 {
+		return r3.Vec{X: math.NaN()}
+	}
+	return r3.Vec{}
+}
+
+func TestNonFiniteFieldIsAnError(t *testing.T) {
+	p := benchProblem(8)
+	p.Field = nanField{}
+	_, err := Render(context.Background(), p, Options{})
+	if !errors.Is(err, ErrNonFinite) || !strings.Contains(err.Error(), "column (") {
+		t.Fatalf("err = %v", err)
 	}
 }
