@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"image"
+	"image/color"
+	"math"
 	"time"
 
 	"fyne.io/fyne/v2"
@@ -32,6 +34,29 @@ func (ws *Workspace) Capture() image.Image {
 	return c.Capture()
 }
 
+// minCaptureStdDev is the least spread of grey levels a capture of the
+// window with its images has; a one-colour (blank) capture has 0, the demo
+// window about 0.3.
+const minCaptureStdDev = 0.05
+
+// GreyStdDev is the standard deviation of an image's luminance as a
+// fraction of full scale (what ImageMagick reports as
+// %[fx:standard_deviation] for a grey image).
+func GreyStdDev(img image.Image) float64 {
+	b := img.Bounds()
+	var s, s2, n float64
+	for y := b.Min.Y; y < b.Max.Y; y++ {
+		for x := b.Min.X; x < b.Max.X; x++ {
+			g := float64(color.GrayModel.Convert(img.At(x, y)).(color.Gray).Y) / 255
+			s += g
+			s2 += g * g
+			n++
+		}
+	}
+	m := s / n
+	return math.Sqrt(math.Max(0, s2/n-m*m))
+}
+
 // captureAfterFirstRender writes the capture to out once the first full
 // render is on screen and calls done with the exit status (and the error
 // to report, if any). A scene that stops rendering, or a render that does
@@ -58,6 +83,10 @@ func (ws *Workspace) captureAfterFirstRender(out string, timeout time.Duration, 
 					return
 				}
 				img := ws.Capture()
+				if sd := GreyStdDev(img); sd < minCaptureStdDev {
+					finish(ExitInternal, fmt.Errorf("screenshot: the capture looks blank (grey standard deviation %.3f)", sd))
+					return
+				}
 				if err := figure.WritePNG(out, img, map[string]string{"Software": "Faultline"}); err != nil {
 					finish(ExitInternal, fmt.Errorf("screenshot: %w", err))
 					return

@@ -3,8 +3,6 @@ package ui
 import (
 	"context"
 	"errors"
-	"image"
-	"image/color"
 	"math"
 	"strconv"
 	"strings"
@@ -285,25 +283,7 @@ func TestCaptureIsNotBlank(t *testing.T) {
 	if b := img.Bounds(); b.Dx() < 1400 || b.Dy() < 900 {
 		t.Fatalf("capture %v, want at least 1400 × 900", b)
 	}
-	if sd := greyStdDev(img); sd < 0.05 {
+	if sd := GreyStdDev(img); sd < 0.05 {
 		t.Errorf("capture grey standard deviation %.3f of full scale: looks blank", sd)
 	}
-}
-
-// greyStdDev is the standard deviation of the luminance, as a fraction of
-// full scale (what `convert x.png -format %[fx:standard_deviation] info:`
-// reports for a grey image).
-func greyStdDev(img image.Image) float64 {
-	b := img.Bounds()
-	var s, s2, n float64
-	for y := b.Min.Y; y < b.Max.Y; y++ {
-		for x := b.Min.X; x < b.Max.X; x++ {
-			g := float64(color.GrayModel.Convert(img.At(x, y)).(color.Gray).Y) / 255
-			s += g
-			s2 += g * g
-			n++
-		}
-	}
-	m := s / n
-	return math.Sqrt(math.Max(0, s2/n-m*m))
 }

@@ -2,14 +2,14 @@ package main
 
 import (
 	"image"
-	"image/color"
 	_ "image/png"
-	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"faultline/ui"
 )
 
 // The screenshot mode end to end: build the program, run it under a
@@ -52,7 +52,7 @@ func TestScreenshotUnderXvfb(t *testing.T) {
 	}
 	// A one-colour capture has standard deviation 0; the window with its
 	// images measures about 0.3 of full scale.
-	if sd := greyStdDev(img); sd < 0.05 {
+	if sd := ui.GreyStdDev(img); sd < 0.05 {
 		t.Errorf("capture grey standard deviation %.3f: looks blank", sd)
 	}
 
@@ -69,19 +69,4 @@ func TestScreenshotUnderXvfb(t *testing.T) {
 	if len(lines) != 1 || !strings.HasPrefix(lines[0], "error: ") {
 		t.Errorf("broken scene: output %q, want one line \"error: ...\"", out)
 	}
-}
-
-func greyStdDev(img image.Image) float64 {
-	b := img.Bounds()
-	var s, s2, n float64
-	for y := b.Min.Y; y < b.Max.Y; y++ {
-		for x := b.Min.X; x < b.Max.X; x++ {
-			g := float64(color.GrayModel.Convert(img.At(x, y)).(color.Gray).Y) / 255
-			s += g
-			s2 += g * g
-			n++
-		}
-	}
-	m := s / n
-	return math.Sqrt(math.Max(0, s2/n-m*m))
 }
