@@ -103,6 +103,7 @@ func Build(sc *Scene, dir string) (*Setup, error) {
 		// s_g = (n − 1) λ g²/2 puts n·g at the Bragg position (the g(ng)
 		// weak-beam condition; Cockayne, Ray & Whelan 1969).
 		st.SPerNm = (d.WeakBeam.N - 1) * st.WavelengthNm * st.GPerNm * st.GPerNm / 2
+		st.Notes = append(st.Notes, fmt.Sprintf("weak beam g(%gg): s = %.4f /nm, computed with g alone; the other beams of the systematic row are left out (the many-beam model is not built yet)", d.WeakBeam.N, st.SPerNm))
 	case d.Kikuchi != nil:
 		s, err := crystal.DeviationFromKikuchi(st.WavelengthNm, st.GPerNm, d.Kikuchi.Offset, d.Kikuchi.Spacing)
 		if err != nil {
