@@ -118,18 +118,25 @@ func cmdReflections(args []string, stdout io.Writer) error {
 	return nil
 }
 
-// progress returns a progress callback that redraws one status line on a
-// terminal, or nil when stderr is not one.
+// progress returns a progress callback: on a terminal it redraws one
+// status line; otherwise, once the work has run for two seconds, it writes
+// a line at every tenth, so long work shows it is moving without filling
+// logs for short work.
 func progress(w io.Writer, what string) func(done, total int) {
-	if !isTerminal(w) {
-		return nil
-	}
+	start := time.Now()
+	tty := isTerminal(w)
 	last := -1
 	return func(done, total int) {
-		if pct := 100 * done / total; pct != last {
-			last = pct
+		pct := 100 * done / total
+		switch {
+		case tty && pct != last:
 			fmt.Fprintf(w, "\r%s: %3d%%", what, pct)
+		case !tty && pct/10 != last/10 && time.Since(start) > 2*time.Second:
+			fmt.Fprintf(w, "%s: %d%%\n", what, pct/10*10)
+		default:
+			return
 		}
+		last = pct
 	}
 }
 
