@@ -3,6 +3,7 @@ package crystal
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -118,7 +119,36 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 			out = append(out, sites[k])
 		}
 	}
+	if err := checkSiteOccupancy(cell, out); err != nil {
+		return nil, fmt.Errorf("crystal %q: %w", name, err)
+	}
 	return &Crystal{Name: name, Cell: cell, Atoms: out}, nil
+}
+
+// checkSiteOccupancy refuses a site whose atoms (of different input
+// atoms, within mergeNm of each other) add up to more than full
+// occupancy: two copies of an atom on one site would double its scattering.
+func checkSiteOccupancy(cell Cell, atoms []Atom) error {
+	var sites []Atom
+	var total []float64
+	var who [][]string
+	for _, at := range atoms {
+		if k, _ := nearSite(cell, sites, at.XYZ); k >= 0 {
+			total[k] += at.Occupancy
+			who[k] = append(who[k], fmt.Sprintf("%s %g", at.Element, at.Occupancy))
+			continue
+		}
+		sites = append(sites, at)
+		total = append(total, at.Occupancy)
+		who = append(who, []string{fmt.Sprintf("%s %g", at.Element, at.Occupancy)})
+	}
+	for k, t := range total {
+		if t > 1+1e-3 {
+			x := sites[k].XYZ
+			return fmt.Errorf("the site (%.4g, %.4g, %.4g) holds %s: occupancies add up to %g, more than 1", x[0], x[1], x[2], strings.Join(who[k], " + "), t)
+		}
+	}
+	return nil
 }
 
 func checkAtom(at Atom) (Atom, error) {
@@ -138,8 +168,17 @@ func checkAtom(at Atom) (Atom, error) {
 	if !(at.BIsoNm2 >= 0) || math.IsInf(at.BIsoNm2, 0) {
 		return Atom{}, fmt.Errorf("%s: Debye–Waller B = %g nm² must be finite and non-negative", el, at.BIsoNm2)
 	}
+	// B = 1 nm² = 100 Å², a mean-square displacement B/8π² of 1.3 Å²
+	// (1.1 Å rms), is far beyond any crystal below its melting point
+	// (metals at room temperature have 0.3–1 Å², from memory).
+	if at.BIsoNm2 > maxBIsoNm2 {
+		return Atom{}, fmt.Errorf("%s: Debye–Waller B = %g nm² is more than %g nm² (%g Å²), beyond any solid", el, at.BIsoNm2, maxBIsoNm2, maxBIsoNm2*100)
+	}
 	return at, nil
 }
+
+// maxBIsoNm2 is the largest Debye–Waller factor accepted, nm².
+const maxBIsoNm2 = 1.0
 
 // wrap maps fractional coordinates into [0, 1), snapping values within 1e-9
 // of a cell face to 0 so that 0.9999999999 and 0 are one coordinate.

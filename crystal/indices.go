@@ -142,7 +142,7 @@ func (c Cell) PlaneIndices(v []float64) ([3]float64, error) {
 			return [3]float64{}, fmt.Errorf("four-index plane (%s) needs a hexagonal cell (a = b, γ = 120°)", joinIdx(v))
 		}
 		if math.Abs(v[2]+v[0]+v[1]) > fourIndexTol {
-			return [3]float64{}, fmt.Errorf("four-index plane (%s): third index i = %g must equal −(h+k) = %g", joinIdx(v), v[2], -(v[0] + v[1]))
+			return [3]float64{}, fmt.Errorf("four-index plane (%s): third index i = %g must equal −(h+k) = %g", joinIdx(v), v[2], -(v[0]+v[1])+0)
 		}
 		return [3]float64{v[0], v[1], v[3]}, nil
 	}
@@ -161,7 +161,7 @@ func (c Cell) DirectionIndices(v []float64) ([3]float64, error) {
 			return [3]float64{}, fmt.Errorf("four-index direction [%s] needs a hexagonal cell (a = b, γ = 120°)", joinIdx(v))
 		}
 		if math.Abs(v[2]+v[0]+v[1]) > fourIndexTol {
-			return [3]float64{}, fmt.Errorf("four-index direction [%s]: third index t = %g must equal −(u+v) = %g", joinIdx(v), v[2], -(v[0] + v[1]))
+			return [3]float64{}, fmt.Errorf("four-index direction [%s]: third index t = %g must equal −(u+v) = %g", joinIdx(v), v[2], -(v[0]+v[1])+0)
 		}
 		return [3]float64{v[0] - v[2], v[1] - v[2], v[3]}, nil
 	}

@@ -172,7 +172,10 @@ func Build(sc *Scene, dir string) (*Setup, error) {
 		st.Problem.Field = field
 	}
 	if err := st.Problem.Validate(); err != nil {
-		return nil, fieldErr("", "%v", err)
+		// Everything the problem holds was checked above except what the
+		// crystal produced: the extinction distance and the model built
+		// from it.
+		return nil, fieldErr("diffraction", "%v (from the crystal's structure factor; check its atoms or give extinction_nm)", err)
 	}
 	return st, nil
 }
@@ -272,6 +275,12 @@ func elastic(e *Elastic, cell crystal.Cell) (crystal.Elastic, error) {
 		}
 		return crystal.CubicElastic(v(e.C11), v(e.C12), v(e.C44))
 	}
+}
+
+// fmtPlane writes plane indices as the trade does: (1 -1 1).
+func fmtPlane(v []float64) string {
+	t := fmtIdx(v)
+	return "(" + t[1:len(t)-1] + ")"
 }
 
 func fmtIdx(v []float64) string {

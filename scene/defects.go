@@ -137,7 +137,7 @@ func (st *Setup) buildDefect(path string, d *Defect) (defects.Field, error) {
 			return nil, rd.err
 		}
 		if math.Abs(r3.Dot(r3.Unit(edge), r3.Unit(n))) > 1e-6 {
-			return nil, fieldErr(path+".edge", "%s does not lie in the fault plane %s", fmtIdx(d.Edge), fmtIdx(d.Plane))
+			return nil, fieldErr(path+".edge", "%s does not lie in the fault plane %s", fmtIdx(d.Edge), fmtPlane(d.Plane))
 		}
 		f, err = defects.NewBoundedFault(at, n, shift, edge, d.BoundsNm[0], d.BoundsNm[1])
 	case "dissociated":
@@ -230,7 +230,7 @@ func (st *Setup) checkDissociation(path string, d *Defect) error {
 	inPlane := func(field, what string, uvw [3]float64) error {
 		dot := hkl[0]*uvw[0] + hkl[1]*uvw[1] + hkl[2]*uvw[2]
 		if math.Abs(dot) > 1e-9 {
-			return fieldErr(field, "%s does not lie in the glide plane %s", what, fmtIdx(d.Plane))
+			return fieldErr(field, "%s does not lie in the glide plane %s", what, fmtPlane(d.Plane))
 		}
 		return nil
 	}

@@ -37,9 +37,9 @@ func TestDefectBuildErrors(t *testing.T) {
      "partials": ["1/6[2 1 -1]", "1/6[1 -1 -2]"], "sfe_mj_m2": 45}`, `{"type": "cavity", "at_nm": `+at+`, "radius_nm": `+fmtF(r)+`}`)
 	}
 	for _, c := range []struct{ text, want string }{
-		{rep(`"1/6[1 -1 -2]"]`, `"1/6[1 -1 2]"]`), "defects[0].partials[1]: the partial 1/6[1 -1 2] does not lie in the glide plane [1 -1 1]"},
+		{rep(`"1/6[1 -1 -2]"]`, `"1/6[1 -1 2]"]`), "defects[0].partials[1]: the partial 1/6[1 -1 2] does not lie in the glide plane (1 -1 1)"},
 		{rep(`["1/6[2 1 -1]", "1/6[1 -1 -2]"]`, `["1/6[2 1 -1]", "1/6[-1 -2 -1]"]`), "defects[0].partials: 1/6[2 1 -1] + 1/6[-1 -2 -1] does not add up to b = 1/2[1 0 -1]"},
-		{rep(`"line": [1, 1, 0]`, `"line": [1, 1, 1]`), "defects[0].line: the line [1 1 1] does not lie in the glide plane [1 -1 1]"},
+		{rep(`"line": [1, 1, 0]`, `"line": [1, 1, 1]`), "defects[0].line: the line [1 1 1] does not lie in the glide plane (1 -1 1)"},
 		{rep(`"sfe_mj_m2": 45`, `"sfe_mj_m2": 45, "separation_nm": 3`), "exactly one of separation_nm or sfe_mj_m2"},
 		{rep(`"type": "dissociated", "b": "1/2[1 0 -1]", "line": [1, 1, 0], "plane": [1, -1, 1], "at_nm": [0, 0, 50],
      "partials": ["1/6[2 1 -1]", "1/6[1 -1 -2]"], "sfe_mj_m2": 45`, `"type": "loop", "b": "1/2[1 1 0]", "normal": [1, 1, 0], "at_nm": [0, 0, 50], "radius_nm": 0`), "defects[0].radius_nm"},

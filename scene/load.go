@@ -59,6 +59,9 @@ func Parse(data []byte) (*Scene, error) {
 	if _, ok := generic.(map[string]any); !ok {
 		return nil, fieldErr("", "scene file: must be a JSON object")
 	}
+	if err := checkDuplicates(data); err != nil {
+		return nil, err
+	}
 	if err := checkKeys(generic, reflect.TypeOf(Scene{}), ""); err != nil {
 		return nil, err
 	}
@@ -118,6 +121,76 @@ func typeName(t reflect.Type) string {
 		return typeName(t.Elem())
 	}
 	return t.String()
+}
+
+// checkDuplicates reports a key given twice in one object: JSON decoders
+// keep the last one silently, which would turn a slip into a setting.
+func checkDuplicates(data []byte) error {
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.UseNumber()
+	type frame struct {
+		object bool
+		path   string
+		keys   map[string]bool
+		index  int
+		key    string // the key whose value comes next, in an object
+	}
+	var stack []*frame
+	// child returns the path of the value about to be read.
+	child := func() string {
+		if len(stack) == 0 {
+			return ""
+		}
+		f := stack[len(stack)-1]
+		if f.object {
+			return join(f.path, f.key)
+		}
+		return fmt.Sprintf("%s[%d]", f.path, f.index)
+	}
+	// done marks the value just read in the enclosing container.
+	done := func() {
+		if len(stack) == 0 {
+			return
+		}
+		f := stack[len(stack)-1]
+		if f.object {
+			f.key = ""
+		} else {
+			f.index++
+		}
+	}
+	for {
+		tok, err := dec.Token()
+		if err == io.EOF {
+			return nil
+		}
+		if err != nil {
+			return nil // syntax errors were reported by the decoder already
+		}
+		if len(stack) > 0 {
+			if f := stack[len(stack)-1]; f.object && f.key == "" {
+				if k, ok := tok.(string); ok {
+					if f.keys[k] {
+						return fieldErr(join(f.path, k), "given twice")
+					}
+					f.keys[k] = true
+					f.key = k
+					continue
+				}
+			}
+		}
+		switch tok {
+		case json.Delim('{'):
+			stack = append(stack, &frame{object: true, path: child(), keys: map[string]bool{}})
+		case json.Delim('['):
+			stack = append(stack, &frame{path: child()})
+		case json.Delim('}'), json.Delim(']'):
+			stack = stack[:len(stack)-1]
+			done()
+		default:
+			done()
+		}
+	}
 }
 
 // checkKeys walks the generic JSON value v alongside the Go type t and

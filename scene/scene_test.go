@@ -102,6 +102,9 @@ func TestFieldErrors(t *testing.T) {
 		{replace(t, `"thickness_nm": 120`, `"thickness_nm": [120]`), "foil.thickness_nm: is array, want a number"},
 		{replace(t, `"at_nm": [0, 0, 60]`, `"at_nm": [0, 1e300, 60]`), "defects[0].at_nm: [0 1e+300 60]: more than 1e+06 nm"},
 		{replace(t, `"thickness_nm": 120`, `"thickness_nm": 1e9`), "foil.thickness_nm: 1e+09 nm: more than"},
+		{replace(t, `"thickness_nm": 120`, `"thickness_nm": 150, "thickness_nm": 5`), "foil.thickness_nm: given twice"},
+		{replace(t, `"s_per_nm": 0.01`, `"weak_beam": {"n": 2.5}`), "diffraction.weak_beam.n: 2.5: the g(ng) condition needs a whole number"},
+		{replace(t, `"b": "1/2[1 1 0]"`, `"b": "1/2[1 1 0]", "b": "[1 0 0]"`), "defects[0].b: given twice"},
 	} {
 		_, err := Parse([]byte(c.text))
 		if err == nil || !strings.Contains(err.Error(), c.want) || !errors.Is(err, ErrInvalid) {

@@ -154,8 +154,8 @@ func (d *Diffraction) validate(path string) error {
 	if d.W != nil && !finite(*d.W) {
 		return fieldErr(path+".w", "must be a finite number")
 	}
-	if d.WeakBeam != nil && !(d.WeakBeam.N > 1 && d.WeakBeam.N <= 20) {
-		return fieldErr(path+".weak_beam.n", "%g: the g(ng) condition needs n between 1 and 20 (n = 1 is the Bragg condition: use s_per_nm 0)", d.WeakBeam.N)
+	if d.WeakBeam != nil && !(d.WeakBeam.N >= 2 && d.WeakBeam.N <= 20 && d.WeakBeam.N == math.Trunc(d.WeakBeam.N)) {
+		return fieldErr(path+".weak_beam.n", "%g: the g(ng) condition needs a whole number n from 2 to 20 (n = 1 is the Bragg condition: use s_per_nm 0; any other s: use s_per_nm)", d.WeakBeam.N)
 	}
 	if k := d.Kikuchi; k != nil {
 		if !(k.Spacing > 0) {

@@ -238,8 +238,10 @@ func TestBadInput(t *testing.T) {
 			t.Errorf("%s: a panic trace reached the user: %s", c.name, stderr)
 		}
 	}
-	// A missing file and bad command-line use are bad input too.
+	// A missing file, an output directory that cannot be made and bad
+	// command-line use are bad input too.
 	for _, args := range [][]string{
+		{"render", writeScene(t, goodScene), "-o", "/proc/faultline-cannot-be-here"},
 		{"render", filepath.Join(t.TempDir(), "missing.json"), "-o", t.TempDir()},
 		{"render", writeScene(t, goodScene)},
 		{"profile", writeScene(t, goodScene), "--y-nm", "1000"},

@@ -28,16 +28,18 @@ func cmdRender(ctx context.Context, args []string, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	for _, n := range st.Notes {
-		fmt.Fprintln(stderr, "note: "+n)
-	}
 	start := time.Now()
 	im, err := export.Render(ctx, st, sim.Options{Progress: progress(stderr, "render")})
 	if err != nil {
 		return err
 	}
 	if err := export.WriteAll(*out, st, im, data, export.DefaultOptions()); err != nil {
-		return err
+		return fmt.Errorf("-o %s: %w", *out, err)
+	}
+	// Notes (defaults applied, values derived) only once all went well, so
+	// a failure is the one line on stderr.
+	for _, n := range st.Notes {
+		fmt.Fprintln(stderr, "note: "+n)
 	}
 	if isTerminal(stderr) {
 		g := st.Problem.Grid
