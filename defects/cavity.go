@@ -1,7 +1,6 @@
 package defects
 
 import (
-	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -25,15 +24,6 @@ func NewCavity(at r3.Vec, radiusNm float64) (*Cavity, error) {
 		return nil, err
 	}
 	return &Cavity{at: at, r: radiusNm}, nil
-}
-
-// CheckInFoil reports an error if the cavity reaches outside the foil
-// 0 ≤ z ≤ thicknessNm (a void open to a surface is a pit, not a cavity).
-func (c *Cavity) CheckInFoil(thicknessNm float64) error {
-	if c.at.Z-c.r < 0 || c.at.Z+c.r > thicknessNm {
-		return inputErr("radius_nm", fmt.Sprintf("cavity of radius %g nm at depth %g nm reaches outside the foil (0 to %g nm)", c.r, c.at.Z, thicknessNm))
-	}
-	return nil
 }
 
 // R is zero: a cavity removes crystal but does not strain it.

@@ -120,5 +120,6 @@
 // inclined dislocations. A defect that crosses a surface is cut by it only
 // in the sense that the simulator integrates each column from z = 0 to
 // z = t: R outside the crystal is still defined (the infinite-medium value)
-// but never sampled. Cavities must lie inside the foil (Cavity.CheckInFoil).
+// but never sampled. Cavities must lie inside the foil; the scene checks that against
+// the foil's surfaces.
 package defects

@@ -69,7 +69,9 @@ const (
 //
 // Far from the loop (|p − c| ≥ 6r) R is the multipole expansion of the
 // loop to its second area moments: the loop is the disc's worth of
-// infinitesimal loops U (see dipole), and expanding U(y − x') about the
+// infinitesimal loops, each (per unit area) U(y) = −1/(8π(1−ν)|y|²)
+// [(1−2ν)(b(n̂·ŷ) + n̂(b·ŷ) − ŷ(b·n̂)) + 3(b·ŷ)(n̂·ŷ)ŷ] (Hirth & Lothe
+// 1982, §4-4), and expanding U(y − x') about the
 // centre, with ∫dA = πr², ∫x'_a x'_b dA = (πr⁴/4)(δ_ab − n_a n_b) and the
 // odd moments zero,
 //

@@ -25,22 +25,3 @@ func (l *Loop) far(q r3.Vec) r3.Vec {
 	u := r3.Add(r3.Add(r3.Scale(cb, l.b), r3.Scale(cv, v)), r3.Add(r3.Scale(cy, y), r3.Scale(cn, l.n)))
 	return r3.Scale(l.kFar*math.Pi*l.radius*l.radius/f2, u)
 }
-
-// dipole returns the displacement at y of an infinitesimal loop of area
-// dA, normal n̂ and Burgers vector b at the origin (Burgers' formula to
-// first order in the loop size; Hirth & Lothe 1982, §4-4):
-//
-//	u = −dA/(8π(1−ν)|y|²) [(1−2ν)(b(n̂·ŷ) + n̂(b·ŷ) − ŷ(b·n̂)) + 3(b·ŷ)(n̂·ŷ)ŷ].
-func (l *Loop) dipole(y r3.Vec, dA float64) r3.Vec {
-	y2 := r3.Norm2(y)
-	inv := 1 / y2
-	by, ny := r3.Dot(l.b, y), r3.Dot(l.n, y)
-	c := l.kFar * dA * inv / math.Sqrt(y2) // −dA/(8π(1−ν)|y|³)
-	a := c * l.oneM2nu
-	s := c*3*by*ny*inv - a*l.bn
-	return r3.Vec{
-		X: a*(l.b.X*ny+l.n.X*by) + s*y.X,
-		Y: a*(l.b.Y*ny+l.n.Y*by) + s*y.Y,
-		Z: a*(l.b.Z*ny+l.n.Z*by) + s*y.Z,
-	}
-}

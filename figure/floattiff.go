@@ -194,13 +194,6 @@ func (t tiffFile) u16(off uint64) (uint16, error) {
 	return t.bo.Uint16(t.b[off:]), nil
 }
 
-func (t tiffFile) u32(off uint64) (uint32, error) {
-	if off+4 > uint64(len(t.b)) {
-		return 0, errTIFFShort
-	}
-	return t.bo.Uint32(t.b[off:]), nil
-}
-
 // field is one IFD entry: its type, count and where its values are.
 type field struct {
 	typ   uint16

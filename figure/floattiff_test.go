@@ -12,6 +12,8 @@ import (
 	"testing"
 
 	"golang.org/x/image/tiff"
+
+	"faultline/internal/pyref"
 )
 
 // tiffData returns an nx × ny image whose pixels differ from each other and
@@ -81,7 +83,7 @@ func TestFloatTIFFBigEndian(t *testing.T) {
 // float32 of what was written (Python's float holds the float32 exactly, so
 // the tolerance is zero).
 func TestFloatTIFFPIL(t *testing.T) {
-	needPython(t, "PIL")
+	pyref.Require(t, "python3-pil and python3-numpy", "PIL")
 	for _, sz := range [][2]int{{6, 4}, {300, 200}} {
 		nx, ny := sz[0], sz[1]
 		data := tiffData(nx, ny)
@@ -89,7 +91,7 @@ func TestFloatTIFFPIL(t *testing.T) {
 		if err := WriteFloatTIFF(path, data, nx, ny); err != nil {
 			t.Fatal(err)
 		}
-		out := runPython(t, `import sys, json
+		out := pyref.Run(t, nil, `import sys, json
 from PIL import Image
 im = Image.open(sys.argv[1])
 print(json.dumps({"mode": im.mode, "size": im.size, "pix": list(im.getdata())}))`, path)
@@ -115,10 +117,10 @@ print(json.dumps({"mode": im.mode, "size": im.size, "pix": list(im.getdata())}))
 // TestFloatTIFFFromPIL reads a float TIFF that Pillow wrote, and rejects
 // its compressed variant.
 func TestFloatTIFFFromPIL(t *testing.T) {
-	needPython(t, "PIL")
+	pyref.Require(t, "python3-pil and python3-numpy", "PIL")
 	dir := t.TempDir()
 	plain, packed := filepath.Join(dir, "plain.tiff"), filepath.Join(dir, "deflate.tiff")
-	runPython(t, `import sys
+	pyref.Run(t, nil, `import sys
 from PIL import Image
 im = Image.new("F", (3, 2))
 im.putdata([0.5, -1.25, 3.0, 1e-3, 7.0, 1e6])

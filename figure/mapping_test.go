@@ -6,6 +6,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"faultline/internal/pyref"
 )
 
 // The expected grey levels below follow from the linear map of the package
@@ -116,7 +118,7 @@ func TestGrayPanicsOnProgrammerError(t *testing.T) {
 // (default "linear" method) from Debian's python3-numpy, to 1e-12 relative
 // (both compute the same interpolation in float64).
 func TestAutoRangeAgainstNumpy(t *testing.T) {
-	needPython(t, "numpy")
+	pyref.Require(t, "python3-pil and python3-numpy", "numpy")
 	data := make([]float64, 997)
 	for k := range data {
 		// A deterministic, irregular sample with a few outliers.
@@ -128,7 +130,7 @@ func TestAutoRangeAgainstNumpy(t *testing.T) {
 	js, _ := json.Marshal(data)
 	for _, p := range []float64{0, 0.5, 1, 2.5, 10, 49} {
 		lo, hi := Mapping{Mode: "auto", ClipPercent: p}.Range(data)
-		out := runPython(t, "import sys, json, numpy; d = numpy.array(json.loads(sys.argv[1])); p = float(sys.argv[2]); print(json.dumps([numpy.percentile(d, p), numpy.percentile(d, 100 - p)]))",
+		out := pyref.Run(t, nil, "import sys, json, numpy; d = numpy.array(json.loads(sys.argv[1])); p = float(sys.argv[2]); print(json.dumps([numpy.percentile(d, p), numpy.percentile(d, 100 - p)]))",
 			string(js), fmt.Sprint(p))
 		var ref [2]float64
 		if err := json.Unmarshal(out, &ref); err != nil {

@@ -11,6 +11,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"faultline/internal/pyref"
 )
 
 // testText mixes a Latin-1 value (tEXt), values needing UTF-8 (iTXt), a
@@ -105,13 +107,13 @@ func TestPNGChunkLayout(t *testing.T) {
 // checks every chunk CRC as it parses, and compares its text dictionary and
 // its pixels with what was written.
 func TestPNGTextPIL(t *testing.T) {
-	needPython(t, "PIL")
+	pyref.Require(t, "python3-pil and python3-numpy", "PIL")
 	path := filepath.Join(t.TempDir(), "pil.png")
 	img := testGray()
 	if err := WritePNG(path, img, testText); err != nil {
 		t.Fatal(err)
 	}
-	out := runPython(t, `import sys, json
+	out := pyref.Run(t, nil, `import sys, json
 from PIL import Image
 im = Image.open(sys.argv[1])
 im.load()
@@ -146,9 +148,9 @@ print(json.dumps({"text": {k: str(v) for k, v in im.text.items()}, "mode": im.mo
 // TestPNGTextFromPIL reads text that Pillow wrote, including a compressed
 // zTXt and a compressed iTXt chunk, which this package never writes.
 func TestPNGTextFromPIL(t *testing.T) {
-	needPython(t, "PIL")
+	pyref.Require(t, "python3-pil and python3-numpy", "PIL")
 	path := filepath.Join(t.TempDir(), "from-pil.png")
-	runPython(t, `import sys
+	pyref.Run(t, nil, `import sys
 from PIL import Image, PngImagePlugin
 info = PngImagePlugin.PngInfo()
 info.add_text("plain", "latin-1 é")

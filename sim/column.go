@@ -31,22 +31,21 @@ const (
 
 // column integrates one column; each worker owns one.
 type column struct {
-	p       *Problem
-	st      Stepper
-	psi     []complex128
-	out     []float64
-	tol     float64
-	hMax    float64
-	jumper  Jumper
-	voider  Voider
-	breaks  []float64
-	voids   [][2]float64
-	x, y    float64
-	nEvals  int
-	nSlabs  int
-	gNorm   float64
-	hasFld  bool
-	hasVoid bool
+	p      *Problem
+	st     Stepper
+	psi    []complex128
+	out    []float64
+	tol    float64
+	hMax   float64
+	jumper Jumper
+	voider Voider
+	breaks []float64
+	voids  [][2]float64
+	x, y   float64
+	nEvals int
+	nSlabs int
+	gNorm  float64
+	hasFld bool
 }
 
 func newColumn(p *Problem) *column {

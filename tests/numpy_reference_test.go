@@ -9,22 +9,9 @@ import (
 	"strconv"
 	"strings"
 	"testing"
-)
 
-// needPython3 returns /usr/bin/python3 when it can import the modules;
-// without them the test is skipped, except under CI (CI set), where the
-// Makefile installs them and their absence is a failure.
-func needPython3(t *testing.T, modules ...string) string {
-	t.Helper()
-	const py = "/usr/bin/python3"
-	if err := exec.Command(py, "-c", "import "+strings.Join(modules, ", ")).Run(); err != nil {
-		if os.Getenv("CI") != "" {
-			t.Fatalf("%s cannot import %v (make test-deps installs them): %v", py, modules, err)
-		}
-		t.Skipf("%s cannot import %v: %v", py, modules, err)
-	}
-	return py
-}
+	"faultline/internal/pyref"
+)
 
 // An independent implementation of the same physics: a straightforward
 // numpy fourth-order Runge–Kutta integration of the Howie–Whelan equations
@@ -32,7 +19,7 @@ func needPython3(t *testing.T, modules ...string) string {
 // its own frame rotation and displacement formulas) on the benchmark
 // scene. Faultline's bright field agrees with it to the stated accuracy.
 func TestAgreesWithIndependentNumpyRK4(t *testing.T) {
-	py := needPython3(t, "numpy")
+	pyref.Require(t, "python3-numpy", "numpy")
 	data, err := os.ReadFile("testdata/bench_dislocation_inclusion.json")
 	if err != nil {
 		t.Fatal(err)
@@ -45,16 +32,12 @@ func TestAgreesWithIndependentNumpyRK4(t *testing.T) {
 	st := setup(t, string(text))
 	im := render(t, st)
 	out := filepath.Join(t.TempDir(), "bf.npy")
-	cmd := exec.Command(py, "baseline/rk4_numpy.py", strconv.FormatFloat(st.XiGNm, 'g', -1, 64),
+	cmd := exec.Command(pyref.Python, "baseline/rk4_numpy.py", strconv.FormatFloat(st.XiGNm, 'g', -1, 64),
 		strconv.FormatFloat(st.Crystal.Elastic.Poisson, 'g', -1, 64), strconv.Itoa(n), "0.1", out)
 	if msg, err := cmd.CombinedOutput(); err != nil {
 		t.Fatalf("%v: %s", err, msg)
 	}
-	check := exec.Command(py, "-c", `import numpy, sys; a = numpy.load(sys.argv[1]); print(" ".join(repr(float(v)) for v in a.ravel()))`, out)
-	got, err := check.Output()
-	if err != nil {
-		t.Fatal(err)
-	}
+	got := pyref.Run(t, nil, `import numpy, sys; a = numpy.load(sys.argv[1]); print(" ".join(repr(float(v)) for v in a.ravel()))`, out)
 	vals := strings.Fields(string(got))
 	if len(vals) != n*n {
 		t.Fatalf("%d values from numpy", len(vals))

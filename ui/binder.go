@@ -54,11 +54,23 @@ func (b *binder) edit(path string, change func(sc *scene.Scene)) {
 	if b.syncing > 0 {
 		return
 	}
-	if _, had := b.board.local[path]; had {
-		delete(b.board.local, path)
-	}
+	delete(b.board.local, path)
 	b.c.Edit(change)
 	b.board.refresh()
+}
+
+// typed handles text typed into the field at path: a parse error is shown
+// under the field and changes nothing; a value goes to use.
+func typed[T any](b *binder, path, text string, parse func(string) (T, error), use func(v T)) {
+	if b.syncing > 0 {
+		return
+	}
+	v, err := parse(text)
+	if err != nil {
+		b.board.setLocal(path, err.Error())
+		return
+	}
+	use(v)
 }
 
 // numberEntry is an entry for a number at path: get writes the scene's
@@ -66,15 +78,9 @@ func (b *binder) edit(path string, change func(sc *scene.Scene)) {
 func (b *binder) numberEntry(path string, get func(sc *scene.Scene) string, set func(sc *scene.Scene, v float64)) *widget.Entry {
 	e := widget.NewEntry()
 	e.OnChanged = func(text string) {
-		if b.syncing > 0 {
-			return
-		}
-		v, err := parseNumber(text)
-		if err != nil {
-			b.board.setLocal(path, err.Error())
-			return
-		}
-		b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+		typed(b, path, text, parseNumber, func(v float64) {
+			b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+		})
 	}
 	b.reader(func(sc *scene.Scene) { e.SetText(get(sc)) })
 	return e
@@ -93,12 +99,9 @@ func (b *binder) optionalNumberEntry(path, placeholder string, get func(sc *scen
 			b.edit(path, func(sc *scene.Scene) { set(sc, nil) })
 			return
 		}
-		v, err := parseNumber(text)
-		if err != nil {
-			b.board.setLocal(path, err.Error())
-			return
-		}
-		b.edit(path, func(sc *scene.Scene) { set(sc, &v) })
+		typed(b, path, text, parseNumber, func(v float64) {
+			b.edit(path, func(sc *scene.Scene) { set(sc, &v) })
+		})
 	}
 	b.reader(func(sc *scene.Scene) {
 		if p := get(sc); p != nil {
@@ -122,12 +125,9 @@ func (b *binder) indicesEntry(path string, optional bool, get func(sc *scene.Sce
 			b.edit(path, func(sc *scene.Scene) { set(sc, nil) })
 			return
 		}
-		v, err := parseIndexList(text)
-		if err != nil {
-			b.board.setLocal(path, err.Error())
-			return
-		}
-		b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+		typed(b, path, text, parseIndexList, func(v []float64) {
+			b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+		})
 	}
 	b.reader(func(sc *scene.Scene) { e.SetText(formatIndices(get(sc))) })
 	return e

@@ -448,16 +448,13 @@ func (dp *defectsPanel) buildForm() {
 			e.SetText(formatNumber(v))
 		}
 		e.OnChanged = func(text string) {
-			v, err := parseNumber(text)
-			if err != nil {
-				ws.board.setLocal(path+"."+fields[k], err.Error())
-				return
-			}
 			j := k
-			b.edit(path+"."+fields[j], func(sc *scene.Scene) {
-				dd := def(sc)
-				*get[1-j](dd) = nil
-				*get[j](dd) = ptr(v)
+			typed(b, path+"."+fields[j], text, parseNumber, func(v float64) {
+				b.edit(path+"."+fields[j], func(sc *scene.Scene) {
+					dd := def(sc)
+					*get[1-j](dd) = nil
+					*get[j](dd) = ptr(v)
+				})
 			})
 		}
 		rows = append(rows, formRow(label, container.NewBorder(nil, nil, choice, unitLbl, e), errl))

@@ -122,9 +122,7 @@ func TestExports(t *testing.T) {
 func TestExportRefusesStaleRender(t *testing.T) {
 	fr := &fakeRender{}
 	ws, _ := newTestWorkspace(t, fr.render)
-	fr.mu.Lock()
-	fr.block = true
-	fr.mu.Unlock()
+	fr.hold()
 	ws.params.Thickness.Slider.SetValue(90)
 	if err := ws.ExportFigure(filepath.Join(t.TempDir(), "x.png"), FigureOptions{}); err == nil {
 		t.Error("exported a figure of a scene whose render has not finished")

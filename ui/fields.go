@@ -6,7 +6,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"unicode"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
@@ -209,63 +208,25 @@ func parseNumber(text string) (float64, error) {
 	return v, nil
 }
 
-// parseInt reads a whole number.
-func parseInt(text string) (int, error) {
-	s := strings.TrimSpace(text)
-	v, err := strconv.Atoi(s)
-	if err != nil {
-		return 0, fmt.Errorf("%q is not a whole number", text)
-	}
-	return v, nil
-}
-
 // parseIndexList reads three or four indices typed as "2 0 0", "2,0,0",
 // "[1 -1 0]", "(1 1 1)" or the compact "[1-10]". A leading factor is not
 // accepted here (it belongs to Burgers vectors, which are kept as text).
 func parseIndexList(text string) ([]float64, error) {
-	s := strings.TrimSpace(strings.ReplaceAll(text, "−", "-"))
+	s := strings.TrimSpace(text)
 	if s == "" {
 		return nil, errors.New("empty: type three indices, e.g. 2 0 0")
 	}
-	if strings.ContainsAny(s, "[(<{") {
-		ix, err := crystal.ParseIndices(s)
-		if err != nil {
-			return nil, err
-		}
-		if ix.Factor != 1 {
-			return nil, fmt.Errorf("%q: no factor here; type the indices only", text)
-		}
-		return ix.V, nil
+	if !strings.ContainsAny(s, "[(<{") {
+		s = "[" + s + "]"
 	}
-	var v []float64
-	for _, f := range strings.FieldsFunc(s, func(r rune) bool { return r == ',' || unicode.IsSpace(r) }) {
-		x, err := strconv.ParseFloat(f, 64)
-		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-			return nil, fmt.Errorf("index %q is not a number", f)
-		}
-		v = append(v, x)
+	ix, err := crystal.ParseIndices(s)
+	if err != nil {
+		return nil, err
 	}
-	if len(v) != 3 && len(v) != 4 {
-		return nil, fmt.Errorf("%d indices; want 3, or 4 for a hexagonal cell", len(v))
+	if ix.Factor != 1 {
+		return nil, fmt.Errorf("%q: no factor here; type the indices only", text)
 	}
-	return v, nil
-}
-
-// parseVector reads n numbers separated by spaces or commas.
-func parseVector(text string, n int) ([]float64, error) {
-	s := strings.TrimSpace(strings.ReplaceAll(text, "−", "-"))
-	var v []float64
-	for _, f := range strings.FieldsFunc(s, func(r rune) bool { return r == ',' || unicode.IsSpace(r) }) {
-		x, err := strconv.ParseFloat(f, 64)
-		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-			return nil, fmt.Errorf("%q is not a number", f)
-		}
-		v = append(v, x)
-	}
-	if len(v) != n {
-		return nil, fmt.Errorf("%d numbers; want %d", len(v), n)
-	}
-	return v, nil
+	return ix.V, nil
 }
 
 // Formatting for display in fields.

@@ -64,6 +64,13 @@ type fakeRender struct {
 	ctx   []context.Context
 }
 
+// hold makes the renders that start from now on wait for cancellation.
+func (f *fakeRender) hold() {
+	f.mu.Lock()
+	f.block = true
+	f.mu.Unlock()
+}
+
 func (f *fakeRender) render(ctx context.Context, st *scene.Setup, _ sim.Options) (*sim.Image, error) {
 	f.mu.Lock()
 	f.setup = append(f.setup, st)

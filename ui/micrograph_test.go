@@ -6,14 +6,13 @@ import (
 	"image/color"
 	"image/png"
 	"math"
-	"os"
-	"os/exec"
 	"path/filepath"
 	"testing"
 
 	"golang.org/x/image/tiff"
 
 	"faultline/figure"
+	"faultline/internal/pyref"
 )
 
 // Integer micrographs are read as fractions of their sample range; a
@@ -75,10 +74,7 @@ func TestDecodeMicrograph(t *testing.T) {
 // A 16-bit TIFF written by an outside library (Pillow, from Debian's
 // python3-pil) reads with the values it was written with.
 func TestMicrographFromPillow(t *testing.T) {
-	py := "/usr/bin/python3"
-	if _, err := os.Stat(py); err != nil {
-		t.Skip("no /usr/bin/python3")
-	}
+	pyref.Require(t, "python3-pil", "PIL")
 	path := filepath.Join(t.TempDir(), "pil16.tif")
 	script := `
 import sys
@@ -89,9 +85,7 @@ im.putpixel((1, 0), 32768)
 im.putpixel((3, 2), 65535)
 im.save(sys.argv[1])
 `
-	if out, err := exec.Command(py, "-c", script, path).CombinedOutput(); err != nil {
-		t.Skipf("python3-pil not available: %v %s", err, out)
-	}
+	pyref.Run(t, nil, script, path)
 	m, err := loadMicrograph(path)
 	if err != nil {
 		t.Fatal(err)

@@ -44,11 +44,6 @@ func newImagePanel(v *imageView, title string) *imagePanel {
 	return p
 }
 
-func (p *imagePanel) setSource(src source, tag string) {
-	p.src, p.tag = src, tag
-	p.Refresh()
-}
-
 // MinSize keeps the panels usable in a small window.
 func (p *imagePanel) MinSize() fyne.Size { return fyne.NewSize(200, 200) }
 

@@ -35,16 +35,10 @@ func (b *binder) sliderField(path string, min, max, step float64, get func(sc *s
 		b.edit(path, func(sc *scene.Scene) { set(sc, v) })
 	}
 	f.Entry.OnChanged = func(text string) {
-		if b.syncing > 0 {
-			return
-		}
-		v, err := parseNumber(text)
-		if err != nil {
-			b.board.setLocal(path, err.Error())
-			return
-		}
-		b.quiet(func() { f.Slider.SetValue(clamp(v, min, max)) })
-		b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+		typed(b, path, text, parseNumber, func(v float64) {
+			b.quiet(func() { f.Slider.SetValue(clamp(v, min, max)) })
+			b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+		})
 	}
 	b.reader(func(sc *scene.Scene) {
 		v, ok := get(sc)

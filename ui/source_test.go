@@ -1,11 +1,11 @@
 package ui
 
 import (
-	"faultline/export"
 	"image"
 	"math"
 	"testing"
 
+	"faultline/export"
 	"faultline/sim"
 )
 

@@ -66,9 +66,7 @@ func TestSliderChangesSceneAndRenders(t *testing.T) {
 func TestSliderMoveCancelsRenderInFlight(t *testing.T) {
 	fr := &fakeRender{}
 	ws, p := newTestWorkspace(t, fr.render)
-	fr.mu.Lock()
-	fr.block = true
-	fr.mu.Unlock()
+	fr.hold()
 	n := fr.calls()
 	ws.params.Thickness.Slider.SetValue(120)
 	p.until(t, 5*time.Second, "the render of 120 nm", func() bool { return fr.calls() > n })
