@@ -54,3 +54,57 @@ func FuzzParse(f *testing.F) {
 		}
 	})
 }
+
+// FuzzSet: no path or value panics; a failed Set leaves the scene as it
+// was, and a successful one leaves a scene that validates and saves to a
+// fixed point.
+func FuzzSet(f *testing.F) {
+	for _, seed := range [][2]string{
+		{"foil.thickness_nm", "80"},
+		{"diffraction.g", "[1,1,-1]"},
+		{"diffraction.g[2]", "1"},
+		{"defects[0].b", `"1/2[1 0 1]"`},
+		{"defects[0].at_nm", "[0, 0, 30]"},
+		{"defects[0]", "null"},
+		{"defects[1].at_nm", "[0, 0, 30]"},
+		{"diffraction.weak_beam.n", "3"},
+		{"diffraction.deviation_from_kikuchi", `{"offset": 0.1, "spacing": 1}`},
+		{"image.pixels", "[16, 16]"},
+		{"crystal.material", `"Ni"`},
+		{"crystal.elastic.cij[0][0]", "100"},
+		{"version", "2"},
+		{"foil..x", "1"},
+		{"defects[99999999999999999999].b", `"x"`},
+		{"image.pixels", "[1e400, 2]"},
+	} {
+		f.Add(seed[0], seed[1])
+	}
+	f.Fuzz(func(t *testing.T, path, value string) {
+		sc, err := Parse([]byte(base))
+		if err != nil {
+			t.Fatal(err)
+		}
+		before, _ := Marshal(sc)
+		if err := SetJSON(sc, path, value); err != nil {
+			var fe *FieldError
+			if !errors.As(err, &fe) || !errors.Is(err, ErrInvalid) {
+				t.Fatalf("SetJSON(%q, %q): error %v is not a *FieldError", path, value, err)
+			}
+			if after, _ := Marshal(sc); !bytes.Equal(before, after) {
+				t.Fatalf("SetJSON(%q, %q) failed (%v) but changed the scene", path, value, err)
+			}
+			return
+		}
+		if err := sc.Validate(); err != nil {
+			t.Fatalf("SetJSON(%q, %q) left an invalid scene: %v", path, value, err)
+		}
+		a, _ := Marshal(sc)
+		sc2, err := Parse(a)
+		if err != nil {
+			t.Fatalf("scene after SetJSON(%q, %q) does not parse: %v", path, value, err)
+		}
+		if b, _ := Marshal(sc2); !bytes.Equal(a, b) {
+			t.Fatalf("not a fixed point after SetJSON(%q, %q)", path, value)
+		}
+	})
+}

@@ -17,6 +17,7 @@ import (
 func cmdRender(ctx context.Context, args []string, stderr io.Writer) error {
 	fs := flag.NewFlagSet("render", flag.ContinueOnError)
 	out := fs.String("o", "", "output directory")
+	set := setFlag(fs)
 	path, err := parse(fs, args)
 	if err != nil {
 		return err
@@ -24,7 +25,7 @@ func cmdRender(ctx context.Context, args []string, stderr io.Writer) error {
 	if *out == "" {
 		return usageError{"render: give the output directory with -o DIR"}
 	}
-	st, data, err := load(path)
+	st, data, err := load(path, *set...)
 	if err != nil {
 		return err
 	}
@@ -51,11 +52,12 @@ func cmdRender(ctx context.Context, args []string, stderr io.Writer) error {
 func cmdProfile(ctx context.Context, args []string, stdout io.Writer) error {
 	fs := flag.NewFlagSet("profile", flag.ContinueOnError)
 	y := fs.Float64("y-nm", 0, "y of the row, nm (0: the centre)")
+	set := setFlag(fs)
 	path, err := parse(fs, args)
 	if err != nil {
 		return err
 	}
-	st, _, err := load(path)
+	st, _, err := load(path, *set...)
 	if err != nil {
 		return err
 	}

@@ -5,6 +5,7 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -33,6 +34,10 @@ const usage = `usage:
   faultline render SCENE -o DIR        write bf.png, df.png, figure.png, bf.tiff, df.tiff
   faultline profile SCENE [--y-nm Y]   CSV x_nm,bf,df along the pixel row nearest y = Y nm
   faultline reflections SCENE [--json] g and the reflections of the zone
+
+render and profile take --set PATH=VALUE (repeatable): a field of the
+scene by its path, the value in JSON, e.g. --set foil.thickness_nm=80
+--set 'diffraction.g=[1,1,-1]' --set 'defects[0].b="1/2[1 0 1]"'
 `
 
 func main() {
@@ -109,11 +114,38 @@ func parse(fs *flag.FlagSet, args []string) (string, error) {
 	return pos[0], nil
 }
 
-// load reads a scene file and builds it.
-func load(path string) (*scene.Setup, []byte, error) {
+// overrides collects the --set PATH=VALUE flags of a command.
+type overrides []scene.Edit
+
+func (o *overrides) String() string { return "" }
+
+// Set takes one PATH=VALUE; the value is JSON text.
+func (o *overrides) Set(text string) error {
+	path, value, ok := strings.Cut(text, "=")
+	if !ok || path == "" {
+		return fmt.Errorf("%q: write PATH=VALUE, e.g. foil.thickness_nm=80", text)
+	}
+	*o = append(*o, scene.Edit{Path: path, Value: json.RawMessage(value)})
+	return nil
+}
+
+// setFlag adds the repeatable --set flag to fs.
+func setFlag(fs *flag.FlagSet) *overrides {
+	o := &overrides{}
+	fs.Var(o, "set", "PATH=VALUE: override a field of the scene (JSON value; repeatable)")
+	return o
+}
+
+// load reads a scene file, applies the overrides in order and builds it.
+func load(path string, set ...scene.Edit) (*scene.Setup, []byte, error) {
 	sc, err := scene.Load(path)
 	if err != nil {
 		return nil, nil, err
+	}
+	for _, e := range set {
+		if err := scene.SetJSON(sc, e.Path, string(e.Value.(json.RawMessage))); err != nil {
+			return nil, nil, fmt.Errorf("--set %w", err)
+		}
 	}
 	st, err := scene.Build(sc, filepath.Dir(path))
 	if err != nil {
