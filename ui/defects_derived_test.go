@@ -33,7 +33,7 @@ func TestOpenDemoMicrograph(t *testing.T) {
 		t.Fatal(err)
 	}
 	m := ws.micro
-	if m == nil || m.NmPerPx != 1.25 || m.GAngleDeg != 30 || m.nx != 240 || m.ny != 240 {
+	if m == nil || m.NmPerPx != 1.25 || m.GAngleDeg != 30 || m.img.Width != 240 || m.img.Height != 240 {
 		t.Fatalf("demo micrograph %+v", m)
 	}
 }

@@ -179,7 +179,7 @@ func (v *imageView) updateExtra() {
 		}
 		return
 	}
-	ms := newRotatedSource(m.displayGray(v.mapping.Invert), m.NmPerPx, m.GAngleDeg, m.OffXNm, m.OffYNm)
+	ms := newRotatedSource(m.displayGray(v.mapping.Invert), m.Placement)
 	switch m.Compare {
 	case compareBlend:
 		base := v.DF.src

@@ -5,6 +5,8 @@ import (
 	"math"
 
 	xdraw "golang.org/x/image/draw"
+
+	"faultline/micrograph"
 )
 
 // A source is what an image panel shows: a grey level at every specimen
@@ -55,45 +57,21 @@ func smoothed(img *image.Gray, minPx int) *image.Gray {
 	return out
 }
 
-// rotatedSource is a grey picture (a micrograph) with square pixels of
-// nmPerPx, turned so that its g direction, at gAngleDeg counter-clockwise
-// from the picture's +x (right), points along +x of the image frame as in
-// every simulated image, and with its centre at (offX, offY) nm. The turn
-// is a rotation, never a mirror.
+// rotatedSource shows a grey picture (a micrograph) placed on the
+// specimen as micrograph.Placement says.
 type rotatedSource struct {
-	img        *image.Gray
-	nmPerPx    float64
-	cos, sin   float64
-	offX, offY float64
+	img *image.Gray
+	p   micrograph.Placement
 }
 
-func newRotatedSource(img *image.Gray, nmPerPx, gAngleDeg, offXNm, offYNm float64) *rotatedSource {
-	a := gAngleDeg * math.Pi / 180
-	return &rotatedSource{img: img, nmPerPx: nmPerPx, cos: math.Cos(a), sin: math.Sin(a), offX: offXNm, offY: offYNm}
-}
-
-// pixel returns the picture position (pixels, x right, y down, from its
-// top-left corner) that shows the specimen point (x, y) of the image frame.
-//
-// The picture's g is the unit vector u = (cos a, −sin a) in its pixel
-// frame (y runs down, so counter-clockwise on the screen is −y), and
-// y = z × x of the image frame is u turned a quarter clockwise on the
-// screen, v = (sin a, cos a). The point x·u + y·v from the centre is then
-// the one shown at (x, y).
-func (s *rotatedSource) pixel(x, y float64) (px, py float64) {
-	b := s.img.Bounds()
-	x, y = (x-s.offX)/s.nmPerPx, (y-s.offY)/s.nmPerPx
-	return float64(b.Dx())/2 + x*s.cos + y*s.sin, float64(b.Dy())/2 - x*s.sin + y*s.cos
+func newRotatedSource(img *image.Gray, p micrograph.Placement) *rotatedSource {
+	return &rotatedSource{img: img, p: p}
 }
 
 func (s *rotatedSource) at(x, y float64) (uint8, bool) {
-	px, py := s.pixel(x, y)
 	b := s.img.Bounds()
-	if px < 0 || py < 0 {
-		return 0, false
-	}
-	i, j := int(px), int(py)
-	if i >= b.Dx() || j >= b.Dy() {
+	i, j, ok := s.p.PixelIndex(x, y, b.Dx(), b.Dy())
+	if !ok {
 		return 0, false
 	}
 	return s.img.Pix[j*s.img.Stride+i], true

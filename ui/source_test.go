@@ -6,55 +6,20 @@ import (
 	"testing"
 
 	"faultline/export"
+	"faultline/micrograph"
 	"faultline/sim"
 )
 
-// A picture whose g points up (90°) is turned a quarter clockwise to put
-// g to the right: what lies above its centre appears to the right, what
-// lies to its right appears below (the image frame's y runs down the
-// picture, y = z × x). A rotation, not a mirror: the two axes keep their
-// handedness.
-func TestRotatedSourceTurnsGToTheRight(t *testing.T) {
+// The panel shows what micrograph.Placement maps to a specimen point.
+func TestRotatedSourceUsesPlacement(t *testing.T) {
 	img := image.NewGray(image.Rect(0, 0, 41, 41))
-	// Centre at (20.5, 20.5) in pixel coordinates.
-	img.Pix[10*img.Stride+20] = 200 // 10 px above the centre, on the picture's g
-	img.Pix[20*img.Stride+30] = 100 // 10 px to the right
-	const nmPerPx = 2.0
-	s := newRotatedSource(img, nmPerPx, 90, 0, 0)
-	cases := []struct {
-		x, y float64
-		want uint8
-	}{
-		{+10 * nmPerPx, 0, 200}, // along g: right in the image frame
-		{0, +10 * nmPerPx, 100}, // picture right: down in the image frame
-		{0, -10 * nmPerPx, 0},
-		{-10 * nmPerPx, 0, 0},
+	img.Pix[10*img.Stride+20] = 200 // 10 px above the centre
+	s := newRotatedSource(img, micrograph.Placement{NmPerPx: 2, GAngleDeg: 90})
+	if v, ok := s.at(20, 0); !ok || v != 200 {
+		t.Errorf("at(20, 0) nm = %d (inside %v), want 200", v, ok)
 	}
-	for _, c := range cases {
-		v, ok := s.at(c.x, c.y)
-		if !ok || v != c.want {
-			t.Errorf("at(%g, %g) nm = %d (inside %v), want %d", c.x, c.y, v, ok, c.want)
-		}
-	}
-	// Handedness: the image frame's x and y map to picture vectors whose
-	// cross product has the sign of the picture's own x × y.
-	px0, py0 := s.pixel(0, 0)
-	pxx, pyx := s.pixel(1, 0)
-	pxy, pyy := s.pixel(0, 1)
-	ux, uy := pxx-px0, pyx-py0
-	vx, vy := pxy-px0, pyy-py0
-	if cross := ux*vy - uy*vx; !(cross > 0) {
-		t.Errorf("x × y maps to %g in the picture; a rotation keeps it positive", cross)
-	}
-	// At 0° nothing turns: a point is where it is.
-	s0 := newRotatedSource(img, nmPerPx, 0, 0, 0)
-	if v, _ := s0.at(10*nmPerPx, 0); v != 100 {
-		t.Errorf("at 0° the pixel right of the centre reads %d, want 100", v)
-	}
-	// The offset moves the picture's centre on the specimen.
-	so := newRotatedSource(img, nmPerPx, 0, 6, -4)
-	if v, _ := so.at(6+10*nmPerPx, -4); v != 100 {
-		t.Errorf("offset (6, −4) nm: pixel right of the centre reads %d, want 100", v)
+	if _, ok := s.at(100, 0); ok {
+		t.Error("a point outside the picture reads as inside")
 	}
 }
 

@@ -27,7 +27,7 @@ type Workspace struct {
 	view    *imageView
 	prof    *profilePanel
 	status  *statusLine
-	micro   *micrograph
+	micro   *micrographView
 	tabs    *container.AppTabs
 
 	onMicrograph []func()
