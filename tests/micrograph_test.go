@@ -1,14 +1,12 @@
 package tests
 
 import (
-	"bytes"
-	"image"
-	"image/png"
 	"math"
 	"testing"
 
 	"faultline/assets"
 	"faultline/export"
+	"faultline/micrograph"
 )
 
 // The demo micrograph is the demo scene at s = 0.006 /nm seen with g at 30°
@@ -17,13 +15,12 @@ import (
 // frame it matches the simulated bright field: a check of that geometry,
 // which the micrograph view and later image matching rely on.
 func TestDemoMicrographGeometry(t *testing.T) {
-	img, err := png.Decode(bytes.NewReader(assets.DemoMicrograph))
+	mg, err := micrograph.DecodeBytes(assets.DemoMicrograph, micrograph.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	gray, ok := img.(*image.Gray16)
-	if !ok || gray.Bounds().Dx() != 240 {
-		t.Fatalf("demo micrograph is %T %v, want 16-bit grey 240×240", img, img.Bounds())
+	if mg.Kind != "16-bit grey" || mg.Width != 240 || mg.Height != 240 {
+		t.Fatalf("demo micrograph is %s %d×%d, want 16-bit grey 240×240", mg.Kind, mg.Width, mg.Height)
 	}
 	st := setup(t, string(assets.DemoScene))
 	s := 0.006
@@ -33,18 +30,17 @@ func TestDemoMicrographGeometry(t *testing.T) {
 	im := render(t, st)
 	g := im.Grid
 	corr := func(angleDeg float64) float64 {
-		c, sn := math.Cos(angleDeg*math.Pi/180), math.Sin(angleDeg*math.Pi/180)
+		p := micrograph.Placement{NmPerPx: 1.25, GAngleDeg: angleDeg}
 		var a, b []float64
 		for j := 0; j < g.NY; j++ {
 			for i := 0; i < g.NX; i++ {
 				x, y := g.X(i), g.Y(j)
-				u, v := c*x+sn*y, -sn*x+c*y // picture frame, nm
-				px, py := int(math.Floor(u/1.25+120)), int(math.Floor(v/1.25+120))
-				if px < 0 || py < 0 || px >= 240 || py >= 240 {
+				v, ok := mg.ValueAt(p, x, y)
+				if !ok {
 					continue
 				}
 				a = append(a, export.Interpolate(im.BF(), g, x, y))
-				b = append(b, float64(gray.Gray16At(px, py).Y))
+				b = append(b, float64(v))
 			}
 		}
 		return pearson(a, b)
