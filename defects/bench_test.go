@@ -50,3 +50,55 @@ func BenchmarkNewDislocationAnisotropic(b *testing.B) {
 		_, _ = NewDislocation(r3.Vec{X: 0.18, Y: 0.18}, r3.Vec{X: 1, Y: -1, Z: 0.5}, r3.Vec{Z: 50}, cuMedium(c), true)
 	}
 }
+
+var sinkF float64
+
+// benchPhase times one g·R evaluation through the fast path (Phase).
+func benchPhase(b *testing.B, f Field) {
+	ph := PhaseOf(f, r3.Vec{X: 4.9, Y: 0.3})
+	p := r3.Vec{X: 3.1, Y: -2.2, Z: 37}
+	b.ResetTimer()
+	for i := 0; b.Loop(); i++ {
+		p.Z = 37 + float64(i%100)*0.5
+		sinkF = ph(p)
+	}
+}
+
+func BenchmarkPhaseDislocationIsotropic(b *testing.B) {
+	d, _ := NewDislocation(r3.Vec{X: 0.18, Y: 0.18}, r3.Vec{X: 1, Y: -1, Z: 0.5}, r3.Vec{Z: 50}, cuIso, false)
+	benchPhase(b, d)
+}
+
+func BenchmarkPhaseDislocationAnisotropic(b *testing.B) {
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	d, _ := NewDislocation(r3.Vec{X: 0.18, Y: 0.18}, r3.Vec{X: 1, Y: -1, Z: 0.5}, r3.Vec{Z: 50}, cuMedium(c), true)
+	benchPhase(b, d)
+}
+
+func BenchmarkPhaseDissociatedAnisotropic(b *testing.B) {
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	d, _ := NewDissociated(bFull, bLead, bTrail, lineAt(0.5), r3.Vec{Z: 50}, n111, 3, cuMedium(c), true)
+	benchPhase(b, d)
+}
+
+func BenchmarkInclusion(b *testing.B) {
+	c, _ := NewInclusion(r3.Vec{Z: 40}, 8, 0.01)
+	benchField(b, c)
+}
+
+func BenchmarkPhaseInclusion(b *testing.B) {
+	c, _ := NewInclusion(r3.Vec{Z: 40}, 8, 0.01)
+	benchPhase(b, c)
+}
+
+// BenchmarkPhaseTableAnisotropic is the cost of building the angular table
+// of one Stroh dislocation for one g (done once per render).
+func BenchmarkPhaseTableAnisotropic(b *testing.B) {
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	d, _ := NewDislocation(r3.Vec{X: 0.18, Y: 0.18}, r3.Vec{X: 1, Y: -1, Z: 0.5}, r3.Vec{Z: 50}, cuMedium(c), true)
+	for b.Loop() {
+		if d.table(r3.Vec{X: 4.9}) == nil {
+			b.Fatal("no table")
+		}
+	}
+}

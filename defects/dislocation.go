@@ -105,14 +105,16 @@ func (d *Dislocation) Elasticity() string {
 // R returns the displacement (nm) at p (nm), both in the image frame.
 func (d *Dislocation) R(p r3.Vec) r3.Vec {
 	q := r3.Sub(p, d.at)
-	x, y := r3.Dot(q, d.ex), r3.Dot(q, d.ey)
-	var l r3.Vec
-	if d.stroh != nil {
-		l = d.stroh.u(x, y)
-	} else {
-		l = d.iso.u(x, y)
-	}
+	l := d.local(r3.Dot(q, d.ex), r3.Dot(q, d.ey))
 	return r3.Add(r3.Add(r3.Scale(l.X, d.ex), r3.Scale(l.Y, d.ey)), r3.Scale(l.Z, d.u))
+}
+
+// local is the displacement in the dislocation frame at (x', y').
+func (d *Dislocation) local(x, y float64) r3.Vec {
+	if d.stroh != nil {
+		return d.stroh.u(x, y)
+	}
+	return d.iso.u(x, y)
 }
 
 // Jumps appends the depth in (z0, z1) at which the column through (x, y)

@@ -42,13 +42,16 @@ type column struct {
 	breaks []float64
 	voids  [][2]float64
 	x, y   float64
+	phase  func(p r3.Vec) float64
 	nEvals int
 	nSlabs int
 	gNorm  float64
 	hasFld bool
 }
 
-func newColumn(p *Problem) *column {
+// newColumn returns a column integrator for p; phase is g·R of p.Field
+// (from phaseFunc, shared by the workers), nil for a perfect crystal.
+func newColumn(p *Problem, phase func(r3.Vec) float64) *column {
 	c := &column{
 		p:     p,
 		st:    p.Model.NewStepper(),
@@ -56,6 +59,7 @@ func newColumn(p *Problem) *column {
 		out:   make([]float64, len(p.Model.Beams())),
 		tol:   p.Tolerance,
 		gNorm: p.GPerNm,
+		phase: phase,
 	}
 	if c.tol <= 0 {
 		c.tol = DefaultTolerance
@@ -75,7 +79,7 @@ func (c *column) gamma(z float64) float64 {
 		return 0
 	}
 	c.nEvals++
-	return c.gNorm * c.p.Field.R(r3.Vec{X: c.x, Y: c.y, Z: z}).X
+	return c.phase(r3.Vec{X: c.x, Y: c.y, Z: z})
 }
 
 // run integrates the column through (x, y) and leaves the exit intensities

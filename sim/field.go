@@ -26,3 +26,22 @@ type Jumper interface {
 type Voider interface {
 	Voids(x, y, z0, z1 float64, dst [][2]float64) [][2]float64
 }
+
+// Phaser is implemented by fields that can evaluate the phase g·R
+// directly, faster than through R (a straight dislocation's K ln r + F(θ)
+// from a table, for one). Phase is called once per render with the
+// reciprocal vector g (1/nm, image frame; the integrator's g lies along
+// +x) and returns a function giving g·R(p) in cycles, which must agree
+// with g·R(p) to 1e-7 cycles and be safe for concurrent use.
+type Phaser interface {
+	Phase(g r3.Vec) func(p r3.Vec) float64
+}
+
+// phaseFunc returns g·R(p) of f for g = (gNorm, 0, 0): f's own fast path
+// if it is a Phaser, otherwise through R.
+func phaseFunc(f Displacement, gNorm float64) func(p r3.Vec) float64 {
+	if ph, ok := f.(Phaser); ok {
+		return ph.Phase(r3.Vec{X: gNorm})
+	}
+	return func(p r3.Vec) float64 { return gNorm * f.R(p).X }
+}

@@ -83,10 +83,18 @@ func (p *Problem) surfaces(x, y float64) (z0, z1 float64) {
 	return z0, z0 + p.ThicknessNm
 }
 
+// phase returns g·R of the field (see Phaser), or nil for a perfect crystal.
+func (p *Problem) phase() func(r3.Vec) float64 {
+	if p.Field == nil {
+		return nil
+	}
+	return phaseFunc(p.Field, p.GPerNm)
+}
+
 // Column returns the exit intensities of the beams of p.Model for the
 // single column through (x, y).
 func (p *Problem) Column(x, y float64) []float64 {
-	c := newColumn(p)
+	c := newColumn(p, p.phase())
 	c.run(x, y)
 	return append([]float64(nil), c.out...)
 }
@@ -134,6 +142,7 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 	if workers > rows {
 		workers = rows
 	}
+	phase := p.phase()
 	var (
 		bad      sync.Mutex
 		badPixel = -1
@@ -146,7 +155,7 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			c := newColumn(p)
+			c := newColumn(p, phase)
 			for {
 				if ctx.Err() != nil {
 					return

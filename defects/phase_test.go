@@ -1,0 +1,131 @@
+package defects
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// phaseCheckPoints returns points around a straight line (at, frame ex,
+// ey, u): random ones up to 300 nm away, rings from the line itself out
+// through the core radius, and pairs 1e-9 nm either side of the cut
+// (y' = 0, x' < 0).
+func phaseCheckPoints(rng *rand.Rand, at, ex, ey, u r3.Vec) []r3.Vec {
+	pt := func(x, y, s float64) r3.Vec {
+		return r3.Add(at, r3.Add(r3.Scale(x, ex), r3.Add(r3.Scale(y, ey), r3.Scale(s, u))))
+	}
+	var ps []r3.Vec
+	for range 2000 {
+		ps = append(ps, r3.Add(at, r3.Scale(300*rng.Float64(), randUnit(rng))))
+	}
+	for _, r := range []float64{0, 1e-5, 5e-4, 1e-3, 2e-3, 0.05, 1, 17, 250} {
+		for k := range 97 {
+			th := -math.Pi + 2*math.Pi*float64(k)/96
+			ps = append(ps, pt(r*math.Cos(th), r*math.Sin(th), rng.Float64()*40-20))
+		}
+	}
+	for _, x := range []float64{-1e-3, -0.3, -4, -60} {
+		for _, y := range []float64{1e-9, -1e-9, 1e-6, -1e-6} {
+			ps = append(ps, pt(x, y, 3))
+		}
+	}
+	return ps
+}
+
+// The tabulated g·R of a straight dislocation (the angular table of
+// lineTable) agrees with g·R from the direct formula, R(p), to 1e-7 cycles
+// everywhere: far, at the core, and on both sides of the cut. Isotropic
+// (Hirth & Lothe), anisotropic (Stroh) in copper, in magnesium and in a
+// strongly anisotropic cubic medium, and the degenerate-sextic rule.
+func TestLinePhaseMatchesDirect(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 22))
+	media := []struct {
+		name  string
+		m     Medium
+		aniso bool
+	}{
+		{"isotropic", cuIso, false},
+		{"Cu Stroh", cuMedium(cubicVoigt(cuC11, cuC12, cuC44)), true},
+		{"Mg Stroh", cuMedium(mgVoigt()), true},
+		// Zener ratio 2·80/(100 − 90) = 16 (invented, to stress the table).
+		{"A=16 Stroh", cuMedium(cubicVoigt(100, 90, 80)), true},
+		{"degenerate rule", cuMedium(isoVoigt(48, 0.34)), true},
+	}
+	for _, md := range media {
+		worst := 0.0
+		for range 6 {
+			var c [6][6]float64
+			m := md.m
+			if md.aniso {
+				c = RotateStiffness(*md.m.C, randomRotation(rng))
+				m.C = &c
+			}
+			u, b := randUnit(rng), r3.Scale(bCu*(0.5+rng.Float64()), randUnit(rng))
+			at := r3.Vec{X: 30 * rng.Float64(), Y: -20 * rng.Float64(), Z: 40 + 20*rng.Float64()}
+			d, err := NewDislocation(b, u, at, m, md.aniso)
+			if err != nil {
+				t.Fatal(err)
+			}
+			g := r3.Scale(3+12*rng.Float64(), randUnit(rng))
+			if d.table(g) == nil {
+				t.Fatalf("%s: no angular table met the tolerance", md.name)
+			}
+			fast := d.Phase(g)
+			for _, p := range phaseCheckPoints(rng, at, d.ex, d.ey, d.u) {
+				want := r3.Dot(g, d.R(p))
+				worst = math.Max(worst, math.Abs(fast(p)-want))
+			}
+		}
+		t.Logf("%s: largest |table − direct| %.2e cycles", md.name, worst)
+		if worst > 1e-7 {
+			t.Errorf("%s: table differs from the direct formula by %.3g cycles", md.name, worst)
+		}
+	}
+}
+
+// The same for the two partials of a dissociated dislocation, whose cuts
+// lie in the glide plane (columns cross them), and for an inclusion and a
+// sum of fields with and without fast paths.
+func TestDissociatedAndSumPhaseMatchDirect(t *testing.T) {
+	rng := rand.New(rand.NewPCG(23, 24))
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	for _, aniso := range []bool{false, true} {
+		d, err := NewDissociated(bFull, bLead, bTrail, lineAt(0.5), r3.Vec{Z: 50}, n111, 3, cuMedium(c), aniso)
+		if err != nil {
+			t.Fatal(err)
+		}
+		inc, err := NewInclusion(r3.Vec{X: 10, Y: 5, Z: 45}, 6, 0.01)
+		if err != nil {
+			t.Fatal(err)
+		}
+		loop, err := NewLoop(r3.Vec{X: -20, Z: 50}, r3.Vec{X: 1, Y: 1, Z: 1}, r3.Vec{X: 0.18, Y: 0.18}, 5, cuIso)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, pa := range []*Dislocation{d.lead, d.trail} {
+			if pa.table(r3.Vec{X: 4.9}) == nil {
+				t.Fatal("no angular table for a partial")
+			}
+		}
+		s := Sum{d, inc, loop}
+		g := r3.Vec{X: 4.9}
+		fast := s.Phase(g)
+		worst := 0.0
+		var pts []r3.Vec
+		for _, pa := range []*Dislocation{d.lead, d.trail} {
+			pts = append(pts, phaseCheckPoints(rng, pa.at, pa.ex, pa.ey, pa.u)...)
+		}
+		for k := range 500 {
+			pts = append(pts, r3.Add(inc.at, r3.Scale(12*float64(k)/500, randUnit(rng))))
+		}
+		for _, p := range pts {
+			worst = math.Max(worst, math.Abs(fast(p)-r3.Dot(g, s.R(p))))
+		}
+		t.Logf("anisotropic %v: largest |fast − direct| %.2e cycles", aniso, worst)
+		if worst > 1e-7 {
+			t.Errorf("anisotropic %v: fast g·R differs from the direct one by %.3g cycles", aniso, worst)
+		}
+	}
+}
