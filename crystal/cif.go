@@ -26,7 +26,11 @@ import (
 // or _atom_site_U_iso_or_equiv in Å², B = 8π²U, or, failing both, U_eq from
 // _atom_site_aniso_U_ij; default B = 0). Charges in type symbols ("O2-",
 // "Fe3+") are dropped: the scattering factors are those of neutral atoms.
-// The operators do not derive from a space-group symbol; they must be listed.
+// Where no operators are listed they come from the space group the block
+// names (_space_group_name_Hall, _space_group_name_H-M_alt or
+// _space_group_IT_number and their older spellings), expanded from a
+// table of International Tables Vol. A generated from python3-gemmi (see
+// SpaceGroupByName for a symbol that leaves the setting open).
 //
 // Every error names the line it was found on (*CIFError).
 func ParseCIF(r io.Reader, block string) (*Crystal, error) {
@@ -118,7 +122,7 @@ func crystalFromBlock(b *cifBlock) (*Crystal, error) {
 		}
 		return nil, cifErr(line, "%v", err)
 	}
-	ops, err := cifSymmetry(b)
+	ops, group, err := cifSymmetry(b, cell)
 	if err != nil {
 		return nil, err
 	}
@@ -126,41 +130,83 @@ func crystalFromBlock(b *cifBlock) (*Crystal, error) {
 	if err != nil {
 		return nil, err
 	}
-	c, err := New(b.name, cell, atoms, ops, "")
+	c, err := expand(b.name, cell, atoms, ops, [][3]float64{{}})
 	if err != nil {
-		// Every input New checks was checked above with its line.
+		// Every input checked above carries its line; what is left is
+		// about the whole structure.
 		return nil, cifErr(b.line, "%v", err)
 	}
+	c.Structure = group
 	return c, nil
 }
 
-func cifSymmetry(b *cifBlock) ([]string, error) {
+// cifSymmetry returns the operations of the block: those listed, or those
+// of the space group it names (Hall symbol, Hermann–Mauguin symbol or
+// number, in that order of preference) from the generated table. The
+// second result names the group, when the block does.
+func cifSymmetry(b *cifBlock, cell Cell) ([]SymOp, string, error) {
+	named := ""
+	for _, tag := range []string{"_space_group_name_h-m_alt", "_symmetry_space_group_name_h-m", "_space_group.name_h-m_alt"} {
+		if col, _ := b.column(tag); col != nil && !col[0].missing() {
+			named = strings.Join(strings.Fields(col[0].text), " ")
+			break
+		}
+	}
 	for _, tag := range []string{"_space_group_symop_operation_xyz", "_symmetry_equiv_pos_as_xyz", "_space_group_symop.operation_xyz"} {
 		col, _ := b.column(tag)
 		if col == nil {
 			continue
 		}
-		var ops []string
+		var ops []SymOp
 		for _, v := range col {
-			if _, err := ParseSymOp(v.text); err != nil {
-				return nil, cifErr(v.line, "%s: %v", tag, err)
+			op, err := ParseSymOp(v.text)
+			if err != nil {
+				return nil, "", cifErr(v.line, "%s: %v", tag, err)
 			}
-			ops = append(ops, v.text)
+			if !hasOp(ops, op) {
+				ops = append(ops, op)
+			}
 		}
-		return ops, nil
+		if len(ops) > maxOpsPerAtom {
+			return nil, "", cifErr(col[0].line, "%s: %d distinct operators; a space group has at most 192", tag, len(ops))
+		}
+		return ops, named, nil
+	}
+	for _, tag := range []string{"_space_group_name_hall", "_symmetry_space_group_name_hall", "_space_group.name_hall"} {
+		if col, _ := b.column(tag); col != nil && !col[0].missing() {
+			g, err := SpaceGroupByHall(col[0].text)
+			if err != nil {
+				return nil, "", cifErr(col[0].line, "%s: %v; list the operators in a _space_group_symop_operation_xyz loop", tag, err)
+			}
+			return g.Operations(), spaceGroupLabel(g), nil
+		}
 	}
 	for _, tag := range []string{"_space_group_name_h-m_alt", "_symmetry_space_group_name_h-m", "_space_group.name_h-m_alt"} {
-		col, _ := b.column(tag)
-		if col == nil || col[0].missing() {
-			continue
+		if col, _ := b.column(tag); col != nil && !col[0].missing() {
+			g, err := SpaceGroupByName(col[0].text, cell)
+			if err != nil {
+				return nil, "", cifErr(col[0].line, "%s: %v", tag, err)
+			}
+			return g.Operations(), spaceGroupLabel(g), nil
 		}
-		if name := strings.Join(strings.Fields(col[0].text), ""); strings.EqualFold(name, "P1") {
-			return nil, nil
-		}
-		return nil, cifErr(col[0].line, "space group %q is named but its operators are not listed; add a _space_group_symop_operation_xyz loop", col[0].text)
 	}
-	return nil, cifErr(b.line, "data_%s lists no symmetry operators (_space_group_symop_operation_xyz or _symmetry_equiv_pos_as_xyz) and names no space group; for P 1 say so with _space_group_name_H-M_alt 'P 1'", b.name)
+	for _, tag := range []string{"_space_group_it_number", "_symmetry_int_tables_number", "_space_group.it_number"} {
+		if col, _ := b.column(tag); col != nil && !col[0].missing() {
+			n, err := strconv.Atoi(strings.TrimSpace(col[0].text))
+			if err != nil {
+				return nil, "", cifErr(col[0].line, "%s: %s is not a whole number", tag, abbreviate(col[0].text))
+			}
+			g, err := SpaceGroupByNumber(n, cell)
+			if err != nil {
+				return nil, "", cifErr(col[0].line, "%s: %v", tag, err)
+			}
+			return g.Operations(), spaceGroupLabel(g), nil
+		}
+	}
+	return nil, "", cifErr(b.line, "data_%s lists no symmetry operators (_space_group_symop_operation_xyz or _symmetry_equiv_pos_as_xyz) and names no space group; for P 1 say so with _space_group_name_H-M_alt 'P 1'", b.name)
 }
+
+func spaceGroupLabel(g SpaceGroup) string { return fmt.Sprintf("%s (No. %d)", g.Name(), g.Number()) }
 
 // cifElement finds the element of a type symbol or label: one or two
 // letters at its start, "Fe3+" → Fe, "O2-" → O, "CU1" → Cu, "Cl1" → Cl.

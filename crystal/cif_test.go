@@ -156,7 +156,10 @@ func TestParseCIFBadInput(t *testing.T) {
 		{"text for number", replace("_cell_length_c 3.6149(2)", "_cell_length_c big"), 4, "not a number"},
 		{"unknown length", replace("_cell_length_c 3.6149(2)", "_cell_length_c ?"), 4, "unknown"},
 		{"bad operator", replace("x+1/2,y,z+1/2", "x+1/2,y"), 13, "symmetry operator"},
-		{"no operators, named group", replace("loop_\n_space_group_symop_operation_xyz\nx,y,z\nx,y+1/2,z+1/2\nx+1/2,y,z+1/2\nx+1/2,y+1/2,z\n", ""), 8, "operators are not listed"},
+		{"no operators, unknown group", strings.Replace(noOps(t), "'F m -3 m'", "'F m -3 q'", 1), 8, "not a Hermann–Mauguin symbol"},
+		{"no operators, origin choice open", strings.Replace(noOps(t), "'F m -3 m'", "'F d -3 m'", 1), 8, `name one, "F d -3 m:1" or "F d -3 m:2"`},
+		{"no operators, number out of range", strings.Replace(noOps(t), "_space_group_name_H-M_alt 'F m -3 m'", "_space_group_IT_number 231", 1), 8, "want 1 to 230"},
+		{"no operators, number not whole", strings.Replace(noOps(t), "_space_group_name_H-M_alt 'F m -3 m'", "_space_group_IT_number 22.5", 1), 8, "not a whole number"},
 		{"no atoms", cifCu[:strings.Index(cifCu, "loop_\n_atom_site_label")], 1, "no atom sites"},
 		{"short loop", replace("Cu1 Cu 0 0 0 1 0.55", "Cu1 Cu 0 0 0 1"), 15, "6 values for 7 tags"},
 		{"unclosed quote", replace("'F m -3 m'", "'F m -3 m"), 8, "not closed"},
@@ -205,5 +208,43 @@ func TestLoadCIF(t *testing.T) {
 	// The first block of mg.cif holds no structure.
 	if _, err := LoadCIF("testdata/mg.cif"); err == nil || !strings.Contains(err.Error(), "mg.cif") || !strings.Contains(err.Error(), "_cell_length_a") {
 		t.Errorf("mg.cif first block: %v", err)
+	}
+}
+
+// noOps is cifCu without its operator loop: the space group is named only.
+func noOps(t *testing.T) string {
+	ops := "loop_\n_space_group_symop_operation_xyz\nx,y,z\nx,y+1/2,z+1/2\nx+1/2,y,z+1/2\nx+1/2,y+1/2,z\n"
+	if !strings.Contains(cifCu, ops) {
+		t.Fatal("test set-up: operator loop not in cifCu")
+	}
+	return strings.Replace(cifCu, ops, "", 1)
+}
+
+// TestParseCIFNamedSpaceGroup: a file that names its space group but lists
+// no operators is expanded from the table. Multiplicities from
+// International Tables Vol. A: Fm-3m 4a has 4 sites; Fd-3m 8a has 8
+// (diamond Si at 1/8 1/8 1/8 in origin choice 2, at 0 0 0 in choice 1).
+func TestParseCIFNamedSpaceGroup(t *testing.T) {
+	si := func(group, xyz string) string {
+		return strings.Replace(strings.Replace(strings.ReplaceAll(noOps(t), "Cu", "Si"), "'F m -3 m'", group, 1), "Si1 Si 0 0 0", "Si1 Si "+xyz, 1)
+	}
+	for _, c := range []struct {
+		name, text, group string
+		n                 int
+	}{
+		{"Fm-3m by symbol", noOps(t), "F m -3 m (No. 225)", 4},
+		{"Fm-3m by number", strings.Replace(noOps(t), "_space_group_name_H-M_alt 'F m -3 m'", "_space_group_IT_number 225", 1), "F m -3 m (No. 225)", 4},
+		{"Fm-3m by Hall symbol", strings.Replace(noOps(t), "_space_group_name_H-M_alt 'F m -3 m'", "_space_group_name_Hall '-F 4 2 3'", 1), "F m -3 m (No. 225)", 4},
+		{"Fd-3m origin 2", si("'Fd-3m:2'", "0.125 0.125 0.125"), "F d -3 m:2 (No. 227)", 8},
+		{"Fd-3m origin 1", si("'F d -3 m:1'", "0 0 0"), "F d -3 m:1 (No. 227)", 8},
+	} {
+		cr, err := ParseCIF(strings.NewReader(c.text), "")
+		if err != nil {
+			t.Errorf("%s: %v", c.name, err)
+			continue
+		}
+		if len(cr.Atoms) != c.n || cr.Structure != c.group {
+			t.Errorf("%s: %d atoms, group %q; want %d, %q", c.name, len(cr.Atoms), cr.Structure, c.n, c.group)
+		}
 	}
 }

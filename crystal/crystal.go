@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"strings"
-
-	"gonum.org/v1/gonum/spatial/r3"
 )
 
 // Atom is one atomic site: fractional coordinates, occupancy in (0, 1] and
@@ -74,6 +72,12 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 	if err != nil {
 		return nil, fmt.Errorf("crystal %q: %w", name, err)
 	}
+	return expand(name, cell, atoms, ops, trans)
+}
+
+// expand maps every atom by each operation of ops and then each lattice
+// translation of trans, merging images as New describes.
+func expand(name string, cell Cell, atoms []Atom, ops []SymOp, trans [][3]float64) (*Crystal, error) {
 	if n := len(ops) * len(trans); n > maxOpsPerAtom {
 		return nil, fmt.Errorf("crystal %q: %d distinct operators × %d centring translations exceed %d (a space group has at most 192 operations)", name, len(ops), len(trans), maxOpsPerAtom)
 	}
@@ -81,6 +85,7 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 		return nil, fmt.Errorf("crystal %q: %d atoms × %d operators × %d centring translations exceed %d images", name, len(atoms), len(ops), len(trans), maxImages)
 	}
 	var out []Atom
+	grid := newSiteGrid(cell)
 	for i, at := range atoms {
 		at, err := checkAtom(at)
 		if err != nil {
@@ -92,11 +97,12 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 		var sites []Atom
 		var sum [][3]float64
 		var count []int
+		grid.reset()
 		for _, op := range ops {
 			x := op.Apply(at.XYZ)
 			for _, t := range trans {
 				img := wrap([3]float64{x[0] + t[0], x[1] + t[1], x[2] + t[2]})
-				if k, d := nearSite(cell, sites, img); k >= 0 {
+				if k, d := grid.near(img); k >= 0 {
 					for j := range d {
 						sum[k][j] += d[j]
 					}
@@ -105,10 +111,14 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 				}
 				a := at
 				a.XYZ = img
+				grid.add(img)
 				sites = append(sites, a)
 				sum = append(sum, [3]float64{})
 				count = append(count, 1)
 			}
+		}
+		if len(out)+len(sites) > MaxAtoms {
+			return nil, fmt.Errorf("crystal %q: the symmetry expansion reaches more than %d atoms in the cell (at atoms[%d]); that is beyond what this program handles", name, MaxAtoms, i)
 		}
 		for k := range sites {
 			var x [3]float64
@@ -129,23 +139,27 @@ func New(name string, cell Cell, atoms []Atom, symmetry []string, centering stri
 // atoms, within mergeNm of each other) add up to more than full
 // occupancy: two copies of an atom on one site would double its scattering.
 func checkSiteOccupancy(cell Cell, atoms []Atom) error {
-	var sites []Atom
+	grid := newSiteGrid(cell)
 	var total []float64
-	var who [][]string
-	for _, at := range atoms {
-		if k, _ := nearSite(cell, sites, at.XYZ); k >= 0 {
+	var who [][]int
+	for i, at := range atoms {
+		if k, _ := grid.near(at.XYZ); k >= 0 {
 			total[k] += at.Occupancy
-			who[k] = append(who[k], fmt.Sprintf("%s %g", at.Element, at.Occupancy))
+			who[k] = append(who[k], i)
 			continue
 		}
-		sites = append(sites, at)
+		grid.add(at.XYZ)
 		total = append(total, at.Occupancy)
-		who = append(who, []string{fmt.Sprintf("%s %g", at.Element, at.Occupancy)})
+		who = append(who, []int{i})
 	}
 	for k, t := range total {
 		if t > 1+1e-3 {
-			x := sites[k].XYZ
-			return fmt.Errorf("the site (%.4g, %.4g, %.4g) holds %s: occupancies add up to %g, more than 1", x[0], x[1], x[2], strings.Join(who[k], " + "), t)
+			x := grid.xyz[k]
+			var names []string
+			for _, i := range who[k] {
+				names = append(names, fmt.Sprintf("%s %g", atoms[i].Element, atoms[i].Occupancy))
+			}
+			return fmt.Errorf("the site (%.4g, %.4g, %.4g) holds %s: occupancies add up to %g, more than 1", x[0], x[1], x[2], strings.Join(names, " + "), t)
 		}
 	}
 	return nil
@@ -192,20 +206,12 @@ func wrap(x [3]float64) [3]float64 {
 	return x
 }
 
-// nearSite returns the index of the site in sites within mergeNm of x, and the minimum-image offset x − site, or −1, nil.
-func nearSite(cell Cell, sites []Atom, x [3]float64) (int, []float64) {
-	for k, o := range sites {
-		d := make([]float64, 3)
-		for i := range d {
-			d[i] = x[i] - o.XYZ[i]
-			d[i] -= math.Round(d[i])
-		}
-		if r3.Norm(cell.Direction([3]float64{d[0], d[1], d[2]})) < mergeNm {
-			return k, d
-		}
-	}
-	return -1, nil
-}
+// MaxAtoms bounds the atoms of a crystal's cell after the symmetry
+// expansion: 100 000 covers the largest inorganic structures (zeolites and
+// intermetallics with a few thousand atoms per cell) with room to spare,
+// while every structure factor stays a sum a render computes in a fraction
+// of a second.
+const MaxAtoms = 100_000
 
 // maxImages bounds the symmetry expansion (atoms × operators × centring
 // translations, before merging): 10⁷ is far above any crystal a
@@ -215,8 +221,7 @@ const maxImages = 10_000_000
 
 // maxOpsPerAtom bounds the images of one atom: a space group has at most
 // 192 operations in its conventional cell (International Tables Vol. A), so
-// 4096 leaves room for redundant input while keeping the merge (quadratic
-// in the images of one atom) fast.
+// 4096 leaves room for redundant input.
 const maxOpsPerAtom = 4096
 
 // hasOp reports whether ops holds op up to a lattice translation (a listed

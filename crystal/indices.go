@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 	"unicode"
@@ -43,7 +44,7 @@ var closing = map[rune]rune{'[': ']', '(': ')', '<': '>', '{': '}'}
 func ParseIndices(text string) (Indices, error) {
 	s := strings.TrimSpace(strings.ReplaceAll(text, "−", "-"))
 	fail := func(format string, args ...any) (Indices, error) {
-		return Indices{}, fmt.Errorf("%w %q: %s", ErrIndices, text, fmt.Sprintf(format, args...))
+		return Indices{}, fmt.Errorf("%w %s: %s", ErrIndices, abbreviate(text), fmt.Sprintf(format, args...))
 	}
 	if s == "" {
 		return fail("empty")
@@ -67,9 +68,12 @@ func ParseIndices(text string) (Indices, error) {
 	var v []float64
 	if strings.ContainsAny(inner, " \t,") {
 		for _, f := range strings.FieldsFunc(inner, func(r rune) bool { return r == ',' || unicode.IsSpace(r) }) {
-			x, err := strconv.ParseFloat(f, 64)
-			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-				return fail("index %q is not a number", f)
+			x, err := parseDecimal(f)
+			if err != nil {
+				return fail("index %s is not a number", abbreviate(f))
+			}
+			if err := checkIndex(x); err != nil {
+				return fail("index %s %v", f, err)
 			}
 			v = append(v, x)
 		}
@@ -98,7 +102,81 @@ func ParseIndices(text string) (Indices, error) {
 	if len(v) != 3 && len(v) != 4 {
 		return fail("%d indices; want 3 (Miller) or 4 (Miller–Bravais)", len(v))
 	}
+	if allZeroIdx(v) {
+		return fail("all indices are zero")
+	}
 	return Indices{Factor: factor, V: v, Bracket: br}, nil
+}
+
+// Limits on indices and factors as written. Indices beyond 1000 or a
+// non-zero one below 0.001 in magnitude (or a factor outside that range)
+// describe no reflection, direction or displacement a diffraction-contrast
+// image can show; they are typing or overflow mistakes.
+const (
+	MaxIndex = 1000
+	MinIndex = 1e-3
+)
+
+// checkIndex refuses an index outside the limits.
+func checkIndex(x float64) error {
+	switch a := math.Abs(x); {
+	case a > MaxIndex:
+		return fmt.Errorf("is beyond ±%d", MaxIndex)
+	case a != 0 && a < MinIndex:
+		return fmt.Errorf("is below %g in magnitude (write 0 for zero)", MinIndex)
+	}
+	return nil
+}
+
+// CheckIndices checks indices given as numbers (g, a beam direction, a
+// plane normal): three or four, finite, each zero or within [MinIndex,
+// MaxIndex] in magnitude, not all zero, and whole numbers when whole is
+// set (the indices of a reflection). The error says what is wrong with
+// which index, for the caller to prefix with the field's path.
+func CheckIndices(v []float64, whole bool) error {
+	if len(v) != 3 && len(v) != 4 {
+		return fmt.Errorf("%d indices; want 3 (Miller) or 4 (Miller–Bravais)", len(v))
+	}
+	for i, x := range v {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return fmt.Errorf("index %d is not a finite number", i)
+		}
+		if err := checkIndex(x); err != nil {
+			return fmt.Errorf("index %d (%g) %v", i, x, err)
+		}
+		if whole && x != math.Trunc(x) {
+			return fmt.Errorf("index %d (%g) is not a whole number", i, x)
+		}
+	}
+	if allZeroIdx(v) {
+		return errors.New("all indices are zero")
+	}
+	return nil
+}
+
+func allZeroIdx(v []float64) bool {
+	for _, x := range v {
+		if x != 0 {
+			return false
+		}
+	}
+	return true
+}
+
+var decimalRE = regexp.MustCompile(`^[-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0-9]+)?$`)
+
+// parseDecimal reads a plain decimal number ("2", "-0.5", "1e-3"); unlike
+// strconv.ParseFloat it refuses Go's other spellings ("0x1p3", "1_0",
+// "Inf", "NaN"), which no one writes for an index.
+func parseDecimal(s string) (float64, error) {
+	if !decimalRE.MatchString(s) {
+		return 0, fmt.Errorf("%s is not a decimal number", abbreviate(s))
+	}
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.IsInf(x, 0) {
+		return 0, fmt.Errorf("%s is out of range", abbreviate(s))
+	}
+	return x, nil
 }
 
 // parseFactor reads "", "a", "1/2", "a/2", "0.5", "2/3", "a/3".
@@ -110,20 +188,23 @@ func parseFactor(f string) (float64, error) {
 	if num == "a" {
 		num = "1"
 	}
-	p, err := strconv.ParseFloat(strings.TrimSpace(num), 64)
+	p, err := parseDecimal(strings.TrimSpace(num))
 	if err != nil {
-		return 0, fmt.Errorf("factor %q is not a number or fraction", f)
+		return 0, fmt.Errorf("factor %s is not a number or fraction", abbreviate(f))
 	}
 	q := 1.0
 	if hasSlash {
-		q, err = strconv.ParseFloat(strings.TrimSpace(den), 64)
+		q, err = parseDecimal(strings.TrimSpace(den))
 		if err != nil {
-			return 0, fmt.Errorf("factor %q is not a number or fraction", f)
+			return 0, fmt.Errorf("factor %s is not a number or fraction", abbreviate(f))
 		}
 	}
 	r := p / q
 	if r == 0 || math.IsNaN(r) || math.IsInf(r, 0) {
-		return 0, fmt.Errorf("factor %q must be finite and non-zero", f)
+		return 0, fmt.Errorf("factor %s must be finite and non-zero", abbreviate(f))
+	}
+	if a := math.Abs(r); a < MinIndex || a > MaxIndex {
+		return 0, fmt.Errorf("factor %s is outside ±[%g, %d]", abbreviate(f), MinIndex, MaxIndex)
 	}
 	return r, nil
 }
@@ -205,9 +286,12 @@ func (c Cell) Burgers(text string) ([3]float64, error) {
 	}
 	for i := range uvw {
 		uvw[i] *= ix.Factor
+		if err := checkIndex(uvw[i]); err != nil {
+			return [3]float64{}, fmt.Errorf("burgers vector %s: component %d of the factor times the indices, %g, %v", abbreviate(text), i, uvw[i], err)
+		}
 	}
 	if uvw == [3]float64{} {
-		return [3]float64{}, fmt.Errorf("burgers vector %q is zero", text)
+		return [3]float64{}, fmt.Errorf("burgers vector %s is zero", abbreviate(text))
 	}
 	return uvw, nil
 }

@@ -55,6 +55,8 @@ func TestParseIndicesMalformed(t *testing.T) {
 		"", "1 1 0", "[1 1 0", "1 1 0]", "[1 1]", "[1 1 0 0 1]", "[11]", "[1 x 0]",
 		"[1-]", "[1--10]", "1/0[1 1 0]", "0[1 1 0]", "q[1 1 0]", "[1 1 0](1 1 1)",
 		"[[1 1 0]]", "[1.5 0]", "[1.50]", "[NaN 0 0]", "[1 Inf 0]", "(1 1 1]",
+		"[0x1p3 0 0]", "[1_0 0 0]", "0x1p3[1 1 0]", "1_0/2[1 1 0]", "[+Inf 0 0]", "[1e-9 0 0]",
+		"[0 0 0]", "(0 0 0)", "[1e400 0 0]",
 	} {
 		if got, err := ParseIndices(text); err == nil {
 			t.Errorf("ParseIndices(%q) = %+v, want an error", text, got)
@@ -125,6 +127,20 @@ func TestBurgersMalformed(t *testing.T) {
 		{ti.Cell, "1/3[1 1 -1 0]", "−(u+v)"},    // t ≠ −(u+v)
 		{ti.Cell, "[0 0 0]", "zero"},
 		{cu.Cell, "half [1 1 0]", "factor"},
+		// Go's other number spellings are not read as numbers.
+		{cu.Cell, "0x1p3[1 1 0]", "not a number"},
+		{cu.Cell, "1_0/2[1 1 0]", "not a number"},
+		{cu.Cell, "[0x1p3 0 0]", "not a number"},
+		{cu.Cell, "[1_0 0 0]", "not a number"},
+		{cu.Cell, "Inf[1 1 0]", "not a number"},
+		{cu.Cell, "NaN[1 1 0]", "not a number"},
+		// Tiny or huge: no displacement an image can show.
+		{cu.Cell, "1e-320[1 1 0]", "outside"},
+		{cu.Cell, "1e300[1 1 0]", "outside"},
+		{cu.Cell, "[1e-9 0 1]", "below 0.001"},
+		{cu.Cell, "[1e9 0 1]", "beyond"},
+		{cu.Cell, "0.001[0.01 0 1]", "component 0"},
+		{cu.Cell, "[0 0 0]", "all indices are zero"},
 	} {
 		_, err := tc.cell.Burgers(tc.text)
 		if err == nil {
@@ -217,3 +233,33 @@ func equalSlice(a, b []float64) bool {
 }
 
 func norm(v r3.Vec) float64 { return r3.Norm(v) }
+
+// TestCheckIndices: numeric indices (g, beam, normals) within the limits,
+// whole where a reflection needs it; the error names the index.
+func TestCheckIndices(t *testing.T) {
+	for _, c := range []struct {
+		v     []float64
+		whole bool
+		inMsg string // "" for accepted
+	}{
+		{[]float64{2, 0, 0}, true, ""},
+		{[]float64{1, 1, -2, 0}, true, ""},
+		{[]float64{0.5, 0, 1}, false, ""},
+		{[]float64{0.5, 0, 0}, true, "index 0 (0.5) is not a whole number"},
+		{[]float64{1e-9, 0, 0}, true, "index 0 (1e-09) is below 0.001"},
+		{[]float64{5e-324, 0, 0}, false, "index 0 (5e-324) is below"},
+		{[]float64{1, 1e308, 0}, false, "index 1 (1e+308) is beyond ±1000"},
+		{[]float64{0, math.NaN(), 0}, false, "index 1 is not a finite number"},
+		{[]float64{0, 0, math.Inf(-1)}, false, "index 2 is not a finite number"},
+		{[]float64{0, 0, 0}, false, "all indices are zero"},
+		{[]float64{1, 0}, false, "2 indices"},
+	} {
+		err := CheckIndices(c.v, c.whole)
+		switch {
+		case c.inMsg == "" && err != nil:
+			t.Errorf("%v: %v", c.v, err)
+		case c.inMsg != "" && (err == nil || !strings.Contains(err.Error(), c.inMsg)):
+			t.Errorf("%v: %v, want %q", c.v, err, c.inMsg)
+		}
+	}
+}

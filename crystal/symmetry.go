@@ -3,7 +3,6 @@ package crystal
 import (
 	"fmt"
 	"math"
-	"strconv"
 	"strings"
 )
 
@@ -119,15 +118,15 @@ func parseSymComponent(s string) (row [3]float64, t float64, err error) {
 
 func parseFraction(s string) (float64, error) {
 	num, den, ok := strings.Cut(s, "/")
-	p, err := strconv.ParseFloat(num, 64)
-	if err != nil || math.IsNaN(p) || math.IsInf(p, 0) {
+	p, err := parseDecimal(num)
+	if err != nil {
 		return 0, fmt.Errorf("%q is not a number", s)
 	}
 	if !ok {
 		return p, nil
 	}
-	q, err := strconv.ParseFloat(den, 64)
-	if err != nil || q == 0 || math.IsNaN(q) || math.IsInf(q, 0) {
+	q, err := parseDecimal(den)
+	if err != nil || q == 0 {
 		return 0, fmt.Errorf("%q is not a fraction", s)
 	}
 	return p / q, nil
