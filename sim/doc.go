@@ -20,9 +20,16 @@
 //
 // The kinematical model is the amplitude–phase integral
 // φ_g = (iπ/ξ_g) ∫ exp(−2πi(s z + g·R)) dz (Hirsch et al. 1965, ch. 7).
-// A systematic row of N beams n·g has the same shape, with couplings
-// q_{n−m} and phases exp(2πi((s_m − s_n) z + (m − n) g·R)); a Model with
-// N beams slots into the same integrator, pool and Image.
+// The systematic row of 2N+1 beams n·g (SystematicRow, the
+// Darwin–Howie–Whelan equations; Hirsch et al. 1965, ch. 12) has the same
+// shape, with couplings q_{n−m} = iπλU_{(n−m)g} − πλU'_{(n−m)g} and phases
+// exp(2πi((s_m − s_n) z + (m − n) g·R)), s_n = n s_1 + n(1−n)λg²/2 (the
+// Ewald sphere to second order in the scattering angle); it slots into the
+// same integrator, pool and Image. Its N×N slab exponentials are applied by
+// a scaled Taylor series (Al-Mohy & Higham 2011) or, for long
+// perfect-crystal slabs, by the Bloch-wave eigen-decomposition; with 7
+// beams it agrees with a converged RK4 solution to better than 1e-4
+// (TestRowAccuracyAgainstConverged).
 //
 // # Method
 //
