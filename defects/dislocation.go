@@ -73,7 +73,7 @@ func newDislocation(b, line, at r3.Vec, cutDir *r3.Vec, m Medium, anisotropic bo
 		if err := checkStiffness(m.C); err != nil {
 			return nil, err
 		}
-		s, err := newStrohField(*m.C, d.ex, d.ey, u, bl)
+		s, err := newStrohField(*m.C, m.Stroh, d.ex, d.ey, u, bl)
 		if err != nil {
 			return nil, fmt.Errorf("anisotropic dislocation: %w", err)
 		}

@@ -15,6 +15,9 @@ import (
 type Medium struct {
 	ShearGPa, Poisson float64
 	C                 *[6][6]float64
+	// Stroh, when not nil, keeps the Stroh eigen-solutions of this
+	// medium for reuse (see StrohCache).
+	Stroh *StrohCache
 }
 
 // checkIsotropic validates the isotropic constants: μ > 0 and

@@ -65,7 +65,7 @@ func energyFactor(b1, b2, line r3.Vec, m Medium, anisotropic bool) (float64, err
 		if err := checkStiffness(m.C); err != nil {
 			return 0, err
 		}
-		s, err := newStrohField(*m.C, ex, ey, u, r3.Vec{})
+		s, err := newStrohField(*m.C, m.Stroh, ex, ey, u, r3.Vec{})
 		if err != nil {
 			return 0, err
 		}

@@ -36,7 +36,9 @@ type strohField struct {
 
 // newStrohField builds the Stroh solution for the image-frame stiffness c
 // (GPa), the dislocation frame ex, ey, u and the Burgers vector bl in that
-// frame.
+// frame. The eigenproblem, which depends on the stiffness in the
+// dislocation frame alone, is taken from cache when it holds it (cache
+// may be nil).
 //
 // With the stiffness rotated into the dislocation frame, Q_ik = C_i1k1,
 // R_ik = C_i1k2, T_ik = C_i2k2, and the fundamental 6×6 eigenproblem
@@ -65,9 +67,31 @@ type strohField struct {
 // constants (C14, C15, C24, C25, C46, C56) dropped. This is exact in both
 // named cases; near them the sextic is only degenerate within ~1e-8 of C,
 // so the error of the rule is of that order.
-func newStrohField(c [6][6]float64, ex, ey, u, bl r3.Vec) (*strohField, error) {
+func newStrohField(c [6][6]float64, cache *StrohCache, ex, ey, u, bl r3.Vec) (*strohField, error) {
 	rot := [3][3]float64{{ex.X, ex.Y, ex.Z}, {ey.X, ey.Y, ey.Z}, {u.X, u.Y, u.Z}}
 	cd := RotateStiffness(c, rot)
+	sol, err := cache.solve(cd)
+	if err != nil {
+		return nil, err
+	}
+	return sol.field(bl), nil
+}
+
+// strohSolution is the part of the Stroh solution that depends on the
+// stiffness in the dislocation frame only (not on b): the roots p_α, the
+// normalised eigenvectors A_α, B_α and the energy-factor matrix, or the
+// mark that the sextic is degenerate.
+type strohSolution struct {
+	cd         [6][6]float64 // stiffness in the dislocation frame
+	p          [3]complex128
+	A, B       [3][3]complex128 // A[α][i] = (a_α)_i
+	energy     [3][3]float64
+	degenerate bool
+}
+
+// solveStroh sets up and solves the sextic eigenproblem for the
+// dislocation-frame stiffness cd (see newStrohField).
+func solveStroh(cd [6][6]float64) (*strohSolution, error) {
 	scale := 0.0
 	for i := range 6 {
 		for j := range 6 {
@@ -104,23 +128,23 @@ func newStrohField(c [6][6]float64, ex, ey, u, bl r3.Vec) (*strohField, error) {
 			n.Set(i+3, j+3, n1.At(j, i))
 		}
 	}
-	s := &strohField{}
+	sol := &strohSolution{cd: cd}
 	var eig mat.Eigen
 	ok := eig.Factorize(n, mat.EigenRight)
 	if ok {
-		ok = s.fromEigen(&eig, bl, scale)
+		ok = sol.fromEigen(&eig, scale)
 	}
 	if !ok {
-		s.fallback = degenerateFallback(cd, bl)
-		s.energy = s.fallback.energyFactor()
+		sol.degenerate = true
+		sol.energy = degenerateFallback(cd, r3.Vec{}).energyFactor()
 	}
-	return s, nil
+	return sol, nil
 }
 
 // fromEigen keeps the Im p > 0 eigenpairs, normalises them, checks the
-// closure relations and fills s. It reports false if the sextic is
+// closure relations and fills sol. It reports false if the sextic is
 // degenerate (closure relations fail).
-func (s *strohField) fromEigen(eig *mat.Eigen, bl r3.Vec, scale float64) bool {
+func (sol *strohSolution) fromEigen(eig *mat.Eigen, scale float64) bool {
 	vals := eig.Values(nil)
 	var vecs mat.CDense
 	eig.VectorsTo(&vecs)
@@ -134,13 +158,13 @@ func (s *strohField) fromEigen(eig *mat.Eigen, bl r3.Vec, scale float64) bool {
 		}
 		return 0
 	})
-	var A, B [3][3]complex128 // A[α][i] = (a_α)_i
+	A, B := &sol.A, &sol.B
 	for al := range 3 {
 		k := idx[al]
 		if !(imag(vals[k]) > 0) {
 			return false
 		}
-		s.p[al] = vals[k]
+		sol.p[al] = vals[k]
 		var norm complex128
 		for i := range 3 {
 			norm += vecs.At(i, k) * vecs.At(i+3, k)
@@ -168,23 +192,31 @@ func (s *strohField) fromEigen(eig *mat.Eigen, bl r3.Vec, scale float64) bool {
 			res = math.Max(res, math.Abs(2*real(ab)-want))
 			res = math.Max(res, math.Abs(2*real(bb))/scale)
 			res = math.Max(res, math.Abs(2*real(aa))*scale)
-			s.energy[i][j] = 2 * imag(bb) // L = −2i BBᵀ, BBᵀ imaginary
+			sol.energy[i][j] = 2 * imag(bb) // L = −2i BBᵀ, BBᵀ imaginary
 		}
 	}
-	if !(res < strohClosureTol) {
-		return false
+	return res < strohClosureTol
+}
+
+// field is the solution for the Burgers vector bl (dislocation frame):
+// c_α = A_α (B_αᵀ b).
+func (sol *strohSolution) field(bl r3.Vec) *strohField {
+	s := &strohField{p: sol.p, energy: sol.energy}
+	if sol.degenerate {
+		s.fallback = degenerateFallback(sol.cd, bl)
+		return s
 	}
 	b := [3]float64{bl.X, bl.Y, bl.Z}
 	for al := range 3 {
 		var qa complex128 // q_α = B_αᵀ b
 		for i := range 3 {
-			qa += B[al][i] * complex(b[i], 0)
+			qa += sol.B[al][i] * complex(b[i], 0)
 		}
-		c := [3]complex128{A[al][0] * qa, A[al][1] * qa, A[al][2] * qa}
+		c := [3]complex128{sol.A[al][0] * qa, sol.A[al][1] * qa, sol.A[al][2] * qa}
 		s.cr[al] = r3.Vec{X: real(c[0]), Y: real(c[1]), Z: real(c[2])}
 		s.ci[al] = r3.Vec{X: imag(c[0]), Y: imag(c[1]), Z: imag(c[2])}
 	}
-	return true
+	return s
 }
 
 // u evaluates the displacement in the dislocation frame. With

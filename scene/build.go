@@ -1,11 +1,17 @@
 package scene
 
 import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
+	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -42,52 +48,222 @@ type Setup struct {
 	// Notes records defaults applied and values derived (a dissociation
 	// width from a stacking-fault energy), for display.
 	Notes []string
+
+	stroh   *defects.StrohCache // the material's, for the defects
+	spheres []sphere            // cavities found while building defects
 }
 
-// Build turns a validated scene into a Setup. dir is the directory that
-// relative paths in the scene (a CIF file) are relative to.
+// Build turns a validated scene into a Setup in one pass. dir is the
+// directory that relative paths in the scene (a CIF file) are relative to.
+// It is a Builder used once; to rebuild a scene after small changes, keep a
+// Builder.
 func Build(sc *Scene, dir string) (*Setup, error) {
+	return new(Builder).Build(sc, dir)
+}
+
+// Builder compiles scenes in three stages and keeps the result of each
+// for the next build, so a rebuild after a small change re-runs only the
+// stages that change touches (see the package documentation):
+//
+//   - material: the crystal (a preset, a CIF file or an explicit cell) with
+//     its elastic constants, and a cache of the Stroh solutions of its
+//     dislocations per line direction. Reused while the crystal section and
+//     the bytes of the CIF file it names are the same.
+//   - geometry: g and the beam as vectors, the image frame, and the
+//     displacement fields of the defects in it. Reused while the material,
+//     g, the beam and the defects are the same.
+//   - conditions: wavelength, ξ_g, the deviation s and w, the model with its
+//     absorption, the foil and the image grid. Run on every build; it is
+//     cheap.
+//
+// A Builder is safe for concurrent use; builds are serialised. The zero
+// value is ready to use.
+type Builder struct {
+	mu     sync.Mutex
+	mat    *material
+	geo    *geometry
+	counts Counts
+}
+
+// Counts tells how many times each stage of a Builder has run, and how
+// many Stroh eigenproblems its material stages have solved.
+type Counts struct {
+	Material, Geometry, Conditions int
+	StrohSolves                    int
+}
+
+// Counts returns the stage counts so far.
+func (b *Builder) Counts() Counts {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	c := b.counts
+	if b.mat != nil {
+		c.StrohSolves += b.mat.stroh.Solves()
+	}
+	return c
+}
+
+// material is the first stage.
+type material struct {
+	key     string
+	crystal *crystal.Crystal
+	stroh   *defects.StrohCache
+}
+
+// geometry is the second stage.
+type geometry struct {
+	key      string
+	mat      *material
+	g, beam  [3]float64
+	gPerNm   float64
+	rotation [3][3]float64
+	field    defects.Sum
+	spheres  []sphere // cavities, checked against the foil by the last stage
+	notes    []string
+}
+
+// sphere is a cavity, which must lie inside the foil.
+type sphere struct {
+	path   string
+	at     r3.Vec
+	radius float64
+}
+
+// Build turns a validated scene into a Setup, reusing the stages of the
+// previous build that the scene's changes leave alone. dir is the
+// directory that relative paths in the scene are relative to.
+func (b *Builder) Build(sc *Scene, dir string) (*Setup, error) {
 	if err := sc.Validate(); err != nil {
 		return nil, err
 	}
-	st := &Setup{Scene: sc, VoltageKV: sc.Microscope.VoltageKV}
-	var err error
-	if st.Crystal, err = buildCrystal(&sc.Crystal, dir); err != nil {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	mat, err := b.material(&sc.Crystal, dir)
+	if err != nil {
 		return nil, err
 	}
-	cell := st.Crystal.Cell
-	st.WavelengthNm = crystal.Wavelength(st.VoltageKV)
+	geo, err := b.geometry(sc, mat)
+	if err != nil {
+		return nil, err
+	}
+	b.counts.Conditions++
+	return conditions(sc, geo)
+}
 
+// material returns the material stage of c, from the cache when the
+// crystal section and the CIF file's bytes are unchanged.
+func (b *Builder) material(c *Crystal, dir string) (*material, error) {
+	section, err := json.Marshal(c)
+	if err != nil {
+		return nil, fieldErr("crystal", "%v", err)
+	}
+	key := string(section)
+	var cif []byte
+	cifPath := ""
+	if c.CIF != "" {
+		cifPath = c.CIF
+		if !filepath.IsAbs(cifPath) {
+			cifPath = filepath.Join(dir, cifPath)
+		}
+		if cif, err = os.ReadFile(cifPath); err != nil {
+			return nil, wrapErr("crystal.cif", err)
+		}
+		sum := sha256.Sum256(cif)
+		key += "|" + cifPath + "|" + hex.EncodeToString(sum[:])
+	}
+	if b.mat != nil && b.mat.key == key {
+		return b.mat, nil
+	}
+	cr, err := buildCrystal(c, cifPath, cif)
+	if err != nil {
+		return nil, err
+	}
+	b.counts.Material++
+	if b.mat != nil {
+		b.counts.StrohSolves += b.mat.stroh.Solves()
+	}
+	b.mat = &material{key: key, crystal: cr, stroh: defects.NewStrohCache()}
+	b.geo = nil
+	return b.mat, nil
+}
+
+// geometry returns the geometry stage of sc, from the cache when the
+// material, g, the beam and the defects are unchanged.
+func (b *Builder) geometry(sc *Scene, mat *material) (*geometry, error) {
+	k, err := json.Marshal(struct {
+		G, Beam []float64
+		Defects []Defect
+	}{sc.Diffraction.G, sc.Diffraction.Beam, sc.Defects})
+	if err != nil {
+		return nil, fieldErr("defects", "%v", err)
+	}
+	key := string(k)
+	if b.geo != nil && b.geo.mat == mat && b.geo.key == key {
+		return b.geo, nil
+	}
+	geo := &geometry{key: key, mat: mat}
+	cell := mat.crystal.Cell
 	d := &sc.Diffraction
-	if st.G, err = cell.PlaneIndices(d.G); err != nil {
+	if geo.g, err = cell.PlaneIndices(d.G); err != nil {
 		return nil, wrapErr("diffraction.g", err)
 	}
-	if st.Beam, err = cell.DirectionIndices(d.Beam); err != nil {
+	if geo.beam, err = cell.DirectionIndices(d.Beam); err != nil {
 		return nil, wrapErr("diffraction.beam", err)
 	}
-	gc := cell.Reciprocal(st.G)
-	bc := cell.Direction(st.Beam)
-	st.GPerNm = r3.Norm(gc)
-	st.DSpacingNm = 1 / st.GPerNm
-	if dot := st.G[0]*st.Beam[0] + st.G[1]*st.Beam[1] + st.G[2]*st.Beam[2]; math.Abs(dot) > 1e-9*(1+math.Abs(dot)) {
+	gc := cell.Reciprocal(geo.g)
+	bc := cell.Direction(geo.beam)
+	geo.gPerNm = r3.Norm(gc)
+	if dot := geo.g[0]*geo.beam[0] + geo.g[1]*geo.beam[1] + geo.g[2]*geo.beam[2]; math.Abs(dot) > 1e-9*(1+math.Abs(dot)) {
 		return nil, fieldErr("diffraction.g", "%s is not perpendicular to the beam %s (g·B = %g)", fmtIdx(d.G), fmtIdx(d.Beam), dot)
-	}
-	if 2*math.Asin(math.Min(1, st.WavelengthNm*st.GPerNm/2)) > math.Pi/6 {
-		return nil, fieldErr("diffraction.g", "%s: Bragg angle too large for the column approximation at %g kV", fmtIdx(d.G), st.VoltageKV)
 	}
 	x := r3.Unit(gc)
 	z := r3.Unit(bc)
 	y := r3.Cross(z, x)
-	st.Rotation = [3][3]float64{{x.X, x.Y, x.Z}, {y.X, y.Y, y.Z}, {z.X, z.Y, z.Z}}
+	geo.rotation = [3][3]float64{{x.X, x.Y, x.Z}, {y.X, y.Y, y.Z}, {z.X, z.Y, z.Z}}
+	if len(sc.Defects) > 0 {
+		// The defects are built against a Setup that holds only what
+		// they need: the crystal, its Stroh cache and the frame.
+		st := &Setup{Scene: sc, Crystal: mat.crystal, G: geo.g, Beam: geo.beam, Rotation: geo.rotation, stroh: mat.stroh}
+		if geo.field, err = st.buildDefects(); err != nil {
+			return nil, err
+		}
+		geo.spheres, geo.notes = st.spheres, st.Notes
+	}
+	b.counts.Geometry++
+	b.geo = geo
+	return geo, nil
+}
+
+// conditions is the last stage: everything that depends on the voltage,
+// the deviation, the model, the foil and the image grid.
+func conditions(sc *Scene, geo *geometry) (*Setup, error) {
+	cr := geo.mat.crystal
+	cell := cr.Cell
+	st := &Setup{
+		Scene:     sc,
+		Crystal:   cr,
+		VoltageKV: sc.Microscope.VoltageKV,
+		G:         geo.g,
+		Beam:      geo.beam,
+		GPerNm:    geo.gPerNm,
+		Rotation:  geo.rotation,
+		stroh:     geo.mat.stroh,
+	}
+	st.DSpacingNm = 1 / st.GPerNm
+	st.WavelengthNm = crystal.Wavelength(st.VoltageKV)
+	d := &sc.Diffraction
+	if 2*math.Asin(math.Min(1, st.WavelengthNm*st.GPerNm/2)) > math.Pi/6 {
+		return nil, fieldErr("diffraction.g", "%s: Bragg angle too large for the column approximation at %g kV", fmtIdx(d.G), st.VoltageKV)
+	}
 
 	// Extinction distance and deviation.
 	if d.ExtinctionNm != nil {
 		st.XiGNm = *d.ExtinctionNm
 	} else {
-		xi, err := st.Crystal.ExtinctionDistance(st.G, st.VoltageKV)
+		xi, err := cr.ExtinctionDistance(st.G, st.VoltageKV)
 		if err != nil {
 			if errors.Is(err, crystal.ErrForbidden) {
-				return nil, &FieldError{Path: "diffraction.g", Msg: fmt.Sprintf("%s is kinematically forbidden in %s; give diffraction.extinction_nm to image it anyway", fmtIdx(d.G), st.Crystal.Name), Err: err}
+				return nil, &FieldError{Path: "diffraction.g", Msg: fmt.Sprintf("%s is kinematically forbidden in %s; give diffraction.extinction_nm to image it anyway", fmtIdx(d.G), cr.Name), Err: err}
 			}
 			return nil, wrapErr("diffraction.g", err)
 		}
@@ -130,6 +306,8 @@ func Build(sc *Scene, dir string) (*Setup, error) {
 	case "two-beam":
 		tb := sim.TwoBeam{SPerNm: st.SPerNm, XiGNm: st.XiGNm}
 		if ratio > 0 {
+			// Mean absorption: ξ'_0 = ξ'_g of the imaged g, the one
+			// convention of every model (see the package documentation).
 			tb.XiGAbsNm = st.XiGNm / ratio
 			tb.Xi0AbsNm = tb.XiGAbsNm
 		}
@@ -155,6 +333,12 @@ func Build(sc *Scene, dir string) (*Setup, error) {
 		}
 		normal = n
 	}
+	for _, c := range geo.spheres {
+		if err := insideFoil(c, normal, sc.Foil.ThicknessNm); err != nil {
+			return nil, err
+		}
+	}
+	st.Notes = append(st.Notes, geo.notes...)
 
 	st.Problem = &sim.Problem{
 		Model:       model,
@@ -164,12 +348,8 @@ func Build(sc *Scene, dir string) (*Setup, error) {
 		Grid: sim.Grid{NX: sc.Image.Pixels[0], NY: sc.Image.Pixels[1],
 			WidthNm: sc.Image.WidthNm, HeightNm: sc.Image.HeightNm},
 	}
-	if len(sc.Defects) > 0 {
-		field, err := st.buildDefects()
-		if err != nil {
-			return nil, err
-		}
-		st.Problem.Field = field
+	if len(geo.field) > 0 {
+		st.Problem.Field = geo.field
 	}
 	if err := st.Problem.Validate(); err != nil {
 		// Everything the problem holds was checked above except what the
@@ -196,7 +376,9 @@ func (st *Setup) ImageVector(uvw [3]float64) r3.Vec {
 	return st.rotate(st.Crystal.Cell.Direction(uvw))
 }
 
-func buildCrystal(c *Crystal, dir string) (*crystal.Crystal, error) {
+// buildCrystal makes the crystal of c; cif holds the bytes of the CIF file
+// at cifPath when c names one.
+func buildCrystal(c *Crystal, cifPath string, cif []byte) (*crystal.Crystal, error) {
 	var (
 		cr  *crystal.Crystal
 		err error
@@ -207,12 +389,8 @@ func buildCrystal(c *Crystal, dir string) (*crystal.Crystal, error) {
 			return nil, wrapErr("crystal.material", err)
 		}
 	case c.CIF != "":
-		path := c.CIF
-		if !filepath.IsAbs(path) {
-			path = filepath.Join(dir, path)
-		}
-		if cr, err = loadCIF(path); err != nil {
-			return nil, wrapErr("crystal.cif", err)
+		if cr, err = crystal.ParseCIF(bytes.NewReader(cif), ""); err != nil {
+			return nil, wrapErr("crystal.cif", fmt.Errorf("%s: %w", cifPath, err))
 		}
 	default:
 		k := c.Cell
@@ -294,7 +472,7 @@ func fmtIdx(v []float64) string {
 // medium is the elastic description of the crystal in the image frame.
 func (st *Setup) medium() defects.Medium {
 	e := st.Crystal.Elastic
-	m := defects.Medium{ShearGPa: e.ShearGPa, Poisson: e.Poisson}
+	m := defects.Medium{ShearGPa: e.ShearGPa, Poisson: e.Poisson, Stroh: st.stroh}
 	if e.Full {
 		c := defects.RotateStiffness(e.C, st.Rotation)
 		m.C = &c

@@ -177,9 +177,9 @@ func (st *Setup) buildDefect(path string, d *Defect) (defects.Field, error) {
 		}
 		f, err = defects.NewLoop(at, n, b, *d.RadiusNm, m)
 	case "cavity":
-		if err := st.insideFoil(path, at, *d.RadiusNm); err != nil {
-			return nil, err
-		}
+		// Checked against the foil once the foil is known (the last
+		// stage of the build).
+		st.spheres = append(st.spheres, sphere{path: path, at: at, radius: *d.RadiusNm})
 		f, err = defects.NewCavity(at, *d.RadiusNm)
 	case "inclusion":
 		strain := 0.0
@@ -202,14 +202,14 @@ func (st *Setup) buildDefect(path string, d *Defect) (defects.Field, error) {
 	return f, nil
 }
 
-// insideFoil checks that a sphere lies inside the foil: its distance from
-// both surface planes is at least its radius.
-func (st *Setup) insideFoil(path string, c r3.Vec, r float64) error {
-	n := st.Problem.Normal
+// insideFoil checks that a cavity lies inside the foil of thickness t and
+// surface normal n (zero: along the beam): its distance from both surface
+// planes is at least its radius.
+func insideFoil(s sphere, n r3.Vec, t float64) error {
+	path, c, r := s.path, s.at, s.radius
 	if n == (r3.Vec{}) {
 		n = r3.Vec{Z: 1}
 	}
-	t := st.Problem.ThicknessNm
 	top := r3.Dot(n, c)            // distance below the entrance plane n·p = 0
 	bottom := t*n.Z - r3.Dot(n, c) // distance above the exit plane n·p = t n_z
 	if top < r || bottom < r {

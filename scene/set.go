@@ -64,11 +64,18 @@ func SetAll(sc *Scene, edits ...Edit) error {
 	if err != nil {
 		return fieldErr("", "scene: %v", err)
 	}
-	next, err := Parse(data)
-	if err != nil {
+	// Every key and type was checked edit by edit (setTree), and the tree
+	// came from a scene: decode it and validate the result.
+	var next Scene
+	strict := json.NewDecoder(bytes.NewReader(data))
+	strict.DisallowUnknownFields()
+	if err := strict.Decode(&next); err != nil {
+		return fieldErr("", "scene: %v", err)
+	}
+	if err := next.Validate(); err != nil {
 		return err
 	}
-	*sc = *next
+	*sc = next
 	return nil
 }
 
