@@ -43,11 +43,16 @@ type FitResult struct {
 	ErrorMethod string
 }
 
-// fitBounds are the ranges searched, from the starting scene: thickness
-// within a factor 2 either way, s within ±2/ξ_g (two fringes of the rocking
-// curve) of the start, and the depth anywhere in the foil.
+// The fitted parameters, in order: thickness (nm), s (1/nm) and the
+// defect's depth as a fraction of the thickness. The ranges searched, from
+// the starting scene: thickness within a factor 2 either way, s within
+// ±2/ξ_g (two fringes of the rocking curve) of the start, and the depth
+// anywhere in the foil. The depth of a fault that crosses the whole foil
+// is not fitted: moving its plane along the beam is a shift of its image,
+// which the registration takes up.
 type fitBounds struct {
 	lo, hi [3]float64
+	n      int // parameters fitted: 2 or 3
 }
 
 // Fit adjusts the foil thickness, the excitation error s and the depth of
@@ -82,6 +87,10 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 	b := fitBounds{
 		lo: [3]float64{t0 / 2, s0 - ds, 0.02},
 		hi: [3]float64{t0 * 2, s0 + ds, 0.98},
+		n:  3,
+	}
+	if d := base.Defects[k]; d.Type == "fault" && len(d.BoundsNm) == 0 {
+		b.n = 2
 	}
 	fr := &FitResult{}
 	eval := func(mic *Micrograph, p [3]float64) (float64, Cell, error) {
@@ -118,15 +127,19 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 		}
 		return c.Score, c, nil
 	}
+	z0 := math.Max(b.lo[2], math.Min(b.hi[2], at[2]/t0))
 	toP := func(u []float64) [3]float64 {
-		var p [3]float64
-		for i := range p {
+		p := [3]float64{0, 0, z0}
+		for i := range u {
 			p[i] = b.lo[i] + (b.hi[i]-b.lo[i])*(1+math.Sin(u[i]))/2
+		}
+		if b.n == 2 {
+			p[2] = at[2] / p[0] // the fault keeps its point
 		}
 		return p
 	}
 	toU := func(p [3]float64) []float64 {
-		u := make([]float64, 3)
+		u := make([]float64, b.n)
 		for i := range u {
 			x := 2*(p[i]-b.lo[i])/(b.hi[i]-b.lo[i]) - 1
 			u[i] = math.Asin(math.Max(-1, math.Min(1, x)))
@@ -168,7 +181,6 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 	if f := (max(m.Raster.W, m.Raster.H) + 63) / 64; f > 1 {
 		coarse = &Micrograph{Name: m.Name, Raster: bin(m.Raster, f), GAngleDeg: m.GAngleDeg, Kind: m.Kind}
 	}
-	z0 := math.Max(b.lo[2], math.Min(b.hi[2], at[2]/t0))
 	var starts [][3]float64
 	for _, tf := range []float64{1, 0.85, 1.15} {
 		for _, sf := range []float64{0, -0.5, 0.5} {
@@ -209,13 +221,16 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 	}
 	h := [3]float64{0.02 * p[0], 0.1 / st0.XiGNm, 0.02}
 	f := func(q [3]float64) (float64, error) {
+		if b.n == 2 {
+			q[2] = at[2] / q[0]
+		}
 		s, _, err := eval(m, q)
 		return s, err
 	}
-	H := mat.NewSymDense(3, nil)
+	H := mat.NewSymDense(b.n, nil)
 	f0 := cell.Score
-	for i := 0; i < 3; i++ {
-		for j := i; j < 3; j++ {
+	for i := 0; i < b.n; i++ {
+		for j := i; j < b.n; j++ {
 			var v float64
 			if i == j {
 				q1, q2 := p, p
@@ -251,7 +266,7 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 	if chol.Factorize(H) {
 		var inv mat.SymDense
 		if err := chol.InverseTo(&inv); err == nil {
-			for i := range errs {
+			for i := 0; i < b.n; i++ {
 				errs[i] = math.Sqrt(2 * sigma * inv.At(i, i))
 			}
 			fr.ErrorMethod = "curvature of the score"
@@ -269,7 +284,11 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 	half := m.Raster.NmPerPx / 2
 	fr.ThicknessNm = Estimate{p[0], errs[0]}
 	fr.SPerNm = Estimate{p[1], errs[1]}
-	fr.AtNm = [3]Estimate{{at[0] + dx, half}, {at[1] + dy, half}, {p[2] * p[0], math.Hypot(errs[2]*p[0], p[2]*errs[0])}}
+	depth := Estimate{p[2] * p[0], math.Hypot(errs[2]*p[0], p[2]*errs[0])}
+	if b.n == 2 {
+		depth = Estimate{at[2], 0} // not fitted
+	}
+	fr.AtNm = [3]Estimate{{at[0] + dx, half}, {at[1] + dy, half}, depth}
 	return fr, nil
 }
 

@@ -59,6 +59,9 @@ type Cell struct {
 	GDotB      float64 // NaN when the candidate is not a Burgers vector
 	GDotBxU    float64 // g·(b × u), u the unit line direction; NaN without a line
 	Simulated  *Raster // the simulation, placed as registered
+	// Flat is true when the simulation showed no contrast and the score
+	// is the micrograph's flatness (see compare).
+	Flat bool
 }
 
 // Ranked is one candidate's result.
@@ -150,6 +153,9 @@ func Identify(ctx context.Context, s *Series, opt Options) ([]Ranked, error) {
 			if err != nil {
 				return nil, fmt.Errorf("micrographs[%d] with candidate %s: %w", mi, c.Label, err)
 			}
+			if opt.MaxShiftPx == 0 {
+				opt.MaxShiftPx = max(v.W, v.H) / 4
+			}
 			cell, err := compare(m, simR, opt)
 			if err != nil {
 				return nil, fmt.Errorf("micrographs[%d] (%s) with candidate %s: %w", mi, m.Name, c.Label, err)
@@ -190,8 +196,20 @@ func Identify(ctx context.Context, s *Series, opt Options) ([]Ranked, error) {
 	return out, nil
 }
 
-// compare registers the simulation on the micrograph and scores it.
+// ContrastFloor is the smallest range of a simulated image, as a fraction
+// of the incident beam, that counts as contrast: below it the image is
+// flat to within what a micrograph could show (the floor the figures use to
+// refuse stretching rounding noise).
+const ContrastFloor = 1e-3
+
+// compare registers the simulation on the micrograph and scores it. A
+// simulation without contrast (its range under ContrastFloor, as at
+// g·b = 0) cannot be registered or correlated; it is scored by flatScore.
 func compare(m *Micrograph, simR *Raster, opt Options) (Cell, error) {
+	if lo, hi := rangeOf(simR); !(hi-lo >= ContrastFloor) {
+		s, e := flatScore(m.Raster)
+		return Cell{Micrograph: m.Name, Score: s, Error: e, Simulated: simR, Flat: true}, nil
+	}
 	sh, err := Register(m.Raster, simR, RegisterOptions{MaxShiftPx: opt.MaxShiftPx})
 	if err != nil {
 		return Cell{}, err
@@ -247,4 +265,18 @@ func cloneScene(sc *scene.Scene) (*scene.Scene, error) {
 		return nil, err
 	}
 	return scene.Parse(data)
+}
+
+// rangeOf returns the smallest and largest pixel, NaN pixels left out.
+func rangeOf(r *Raster) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, x := range r.Pix {
+		if x < lo {
+			lo = x
+		}
+		if x > hi {
+			hi = x
+		}
+	}
+	return lo, hi
 }
