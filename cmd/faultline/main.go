@@ -15,6 +15,8 @@ import (
 	"path/filepath"
 	"strings"
 
+	"faultline/match"
+	"faultline/micrograph"
 	"faultline/scene"
 )
 
@@ -34,6 +36,12 @@ const usage = `usage:
   faultline render SCENE -o DIR        write bf.png, df.png, figure.png, bf.tiff, df.tiff
   faultline profile SCENE [--y-nm Y]   CSV x_nm,bf,df along the pixel row nearest y = Y nm
   faultline reflections SCENE [--json] g and the reflections of the zone
+  faultline identify SET [--json] [-o DIR]
+                                       rank candidate Burgers vectors (or a loop's
+                                       nature, a fault's kind) against a g·b series
+  faultline fit SCENE --micrograph IMG [--nm-per-px P] [--g-angle-deg A]
+                [--kind bf|df] [--defect K] [--blur-nm S] [--json]
+                                       fit thickness, s and the defect's depth
 
 render and profile take --set PATH=VALUE (repeatable): a field of the
 scene by its path, the value in JSON, e.g. --set foil.thickness_nm=80
@@ -68,8 +76,12 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 		err = cmdProfile(ctx, args[1:], stdout)
 	case "reflections":
 		err = cmdReflections(args[1:], stdout)
-	case "plan", "identify", "fit":
-		err = usageError{fmt.Sprintf("%s is not built yet; this version has render, profile and reflections", args[0])}
+	case "identify":
+		err = cmdIdentify(ctx, args[1:], stdout, stderr)
+	case "fit":
+		err = cmdFit(ctx, args[1:], stdout, stderr)
+	case "plan":
+		err = usageError{fmt.Sprintf("%s is not built yet; this version has render, profile, reflections, identify and fit", args[0])}
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return exitOK
@@ -82,7 +94,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 	fmt.Fprintln(stderr, "error: "+oneLine(err.Error()))
 	var ue usageError
 	switch {
-	case errors.As(err, &ue), errors.Is(err, scene.ErrInvalid), errors.Is(err, os.ErrNotExist):
+	case errors.As(err, &ue), errors.Is(err, scene.ErrInvalid), errors.Is(err, os.ErrNotExist),
+		errors.Is(err, match.ErrSeries), errors.Is(err, micrograph.ErrInvalid):
 		return exitBadInput
 	case errors.Is(err, context.Canceled):
 		return exitInternal
