@@ -25,4 +25,3 @@ func BenchmarkIdentify12x3(b *testing.B) {
 		}
 	}
 }
-
