@@ -1,0 +1,66 @@
+package tests
+
+import (
+	"fmt"
+	"math"
+	"testing"
+
+	"faultline/scene"
+	"faultline/sim"
+)
+
+// The checks of the sign rules (fault type, loop nature, image side,
+// misfit sign, small-loop depth layers) compute the geometry they expect
+// from the Miller indices themselves, in a cubic crystal where a direction
+// [uvw] and a plane normal (hkl) are parallel to the vectors of their
+// indices. They use only the README's stated conventions (x along g, z
+// along the beam into the foil, y = z × x; R on the side a fault's normal
+// points to; a loop's line sense right-handed about its normal; b by
+// FS/RH), never the program's rotation, so a flipped convention anywhere
+// in the chain moves the image away from where the rule puts it.
+
+// vec3 is a vector of indices or its Cartesian image in a cubic crystal.
+type vec3 [3]float64
+
+func (a vec3) dot(b vec3) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }
+func (a vec3) cross(b vec3) vec3 {
+	return vec3{a[1]*b[2] - a[2]*b[1], a[2]*b[0] - a[0]*b[2], a[0]*b[1] - a[1]*b[0]}
+}
+func (a vec3) unit() vec3 {
+	n := math.Sqrt(a.dot(a))
+	return vec3{a[0] / n, a[1] / n, a[2] / n}
+}
+func (a vec3) scale(f float64) vec3 { return vec3{f * a[0], f * a[1], f * a[2]} }
+
+// json writes the vector as a JSON array of numbers.
+func (a vec3) json() string { return fmt.Sprintf("[%g, %g, %g]", a[0], a[1], a[2]) }
+
+// imageFrame is the README's image frame for g and beam in a cubic
+// crystal: x along g, z along the beam, y = z × x.
+type imageFrame struct{ x, y, z vec3 }
+
+func newImageFrame(g, beam vec3) imageFrame {
+	x, z := g.unit(), beam.unit()
+	return imageFrame{x: x, y: z.cross(x), z: z}
+}
+
+// in returns the image-frame components of a crystal vector.
+func (f imageFrame) in(v vec3) vec3 { return vec3{v.dot(f.x), v.dot(f.y), v.dot(f.z)} }
+
+// extinction returns ξ_g (nm) of the scene text with %[1]g standing for
+// the foil thickness, built at a thickness of 100 nm.
+func extinction(t *testing.T, text string) float64 {
+	t.Helper()
+	return setup(t, fmt.Sprintf(text, 100.0)).XiGNm
+}
+
+// contrast returns the image of beam k minus the perfect-crystal
+// intensity of that beam.
+func contrast(st *scene.Setup, im *sim.Image, k int) []float64 {
+	ref := perfect(st)
+	out := make([]float64, len(im.Intensity[k]))
+	for n, v := range im.Intensity[k] {
+		out[n] = v - ref[k]
+	}
+	return out
+}
