@@ -85,8 +85,10 @@ func renderDislocation(t *testing.T, c dislocationCase) (d, con []float64, nx, n
 // pointing up the column is the same statement with z reversed.)
 //
 // Shown for an edge and a screw, in the kinematical limit (dark field at
-// w = ±2) and in two-beam bright field at w = ±0.8, with g, s and b each
-// reversed. The image lies where the contrast is strongest; its distance
+// w = ±2, g, s and b each reversed) and in two-beam bright field at
+// w = +0.8 (g and b reversed; s > 0 as the rule is used in practice: in a
+// thick foil with absorption the bright-field image at s < 0 is a faint
+// 0.02 of the background). The image lies where the contrast is strongest; its distance
 // from the core must be at least two pixels (0.4 nm) on the rule's side.
 func TestDislocationImageSide(t *testing.T) {
 	type disl struct {
@@ -107,6 +109,9 @@ func TestDislocationImageSide(t *testing.T) {
 		} {
 			for _, gs := range []float64{1, -1} {
 				for _, ss := range []float64{1, -1} {
+					if ss < 0 && !model.df {
+						continue // see above: s < 0 only kinematically
+					}
 					for _, bs := range []float64{1, -1} {
 						g := vec3{2, 0, 0}.scale(gs)
 						b, bv := dl.b, dl.bVec
