@@ -22,6 +22,18 @@
 // has its extra half-plane at y > 0 (σ_xx < 0 there, Hirth & Lothe
 // eq. 3-43).
 //
+// # Which side moves: faults, loops, inclusions
+//
+// A Fault displaces the crystal on the side its normal n̂ points to by the
+// fault vector, R = shift for n̂·(p − at) > 0. With that convention an
+// intrinsic fault on a close-packed plane (a removed layer, the two sides
+// closing up) has shift −d n̂ (on fcc (1 1 1): −1/3[1 1 1]) and an
+// extrinsic one (an inserted layer) +d n̂. A Loop's line runs right-handedly
+// about its normal, so R(n̂ side) − R(other side) = −b across its disc:
+// b·n̂ > 0 is a vacancy loop, b·n̂ < 0 an interstitial loop. An Inclusion
+// with ε > 0 expands (R = εr outward). These are the README's
+// "Conventions"; tests/conventions_test.go checks them through a scene.
+//
 // # Cuts and jumps
 //
 // A straight dislocation's θ (or Stroh ln) term is multivalued; its branch

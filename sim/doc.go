@@ -18,6 +18,16 @@
 //	dφ_g/dz = q φ_0 exp(−2πi(s z + g·R)) − (π/ξ'_0) φ_g
 //	q = iπ/ξ_g − π/ξ'_g
 //
+// Signs (stated once, with their sources, in the README's "Conventions"):
+// s > 0 when the reciprocal-lattice point g lies inside the Ewald sphere
+// (Hirsch et al. 1965, ch. 4); an atom of the perfect crystal at r sits at
+// r + R(r), so a fault's phase angle is α = 2π g·R; z points along the
+// electron beam from the entrance surface (the top of every figure) and
+// g along +x (to the right of every picture). The tests in tests/ that
+// reproduce the published contrast rules from rendered images
+// (TestFaultTypeFromOuterFringes, TestDislocationImageSide,
+// TestLoopInsideOutside, …) fail if any of these signs is flipped.
+//
 // The kinematical model is the amplitude–phase integral
 // φ_g = (iπ/ξ_g) ∫ exp(−2πi(s z + g·R)) dz (Hirsch et al. 1965, ch. 7).
 // The systematic row of 2N+1 beams n·g (SystematicRow, the

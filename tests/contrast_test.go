@@ -53,8 +53,11 @@ func TestScrewWithGDotBOneIsVisible(t *testing.T) {
 // A planar fault whose g·R is a whole number shifts the lattice by a
 // lattice vector as far as g can tell: α = 2π g·R ≡ 0 and the fault is
 // invisible (Hirsch et al. 1965, ch. 10; the basis of fault-vector
-// analysis). An intrinsic fault R = 1/3[1 1 1] in fcc copper: g = 3 3 3
-// gives g·R = 3, g = 2 -2 0 gives 0; g = 1 1 1 (g·R = 1) as well.
+// analysis). A fault R = 1/3[1 1 1] on (1 1 1) in fcc copper (extrinsic,
+// with R on the side the normal points to; see the README's Conventions):
+// g = 3 3 3 gives g·R = 3, g = 2 -2 0 gives 0; g = 1 1 1 (g·R = 1) as
+// well. The same holds for the intrinsic −1/3[1 1 1]: this check cannot
+// tell the two apart (TestFaultTypeFromOuterFringes does).
 func TestFaultWithIntegerGDotRIsInvisible(t *testing.T) {
 	for _, c := range []struct{ g, beam string }{
 		{"[3, 3, 3]", "[1, -1, 0]"},
