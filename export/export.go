@@ -7,23 +7,31 @@ import (
 	"image"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 
 	"faultline/figure"
+	"faultline/internal/atomicfile"
 	"faultline/scene"
 	"faultline/sim"
 )
 
-// Render simulates the setup's problem, applying the scene's blur.
+// Render simulates the setup's problem, applying the scene's blur. A blur
+// outside its range is refused before the render starts.
 func Render(ctx context.Context, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
+	b := st.Scene.Image.BlurNm
+	if b != nil {
+		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
+			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
+	}
 	im, err := sim.Render(ctx, st.Problem, opt)
 	if err != nil {
 		return nil, err
 	}
-	if b := st.Scene.Image.BlurNm; b != nil {
-		sim.Blur(im, *b)
+	if b != nil {
+		if err := sim.Blur(im, *b); err != nil {
+			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
 	}
 	return im, nil
 }
@@ -95,8 +103,15 @@ func DefaultOptions() Options {
 	return Options{FigureMapping: figure.Mapping{Mode: figure.ModeAuto, ClipPercent: 0.5}, Caption: true}
 }
 
-// Figure builds the labelled bright-field/dark-field pair.
+// Figure builds the labelled bright-field/dark-field pair. Images too
+// large for a figure are shown reduced by a box average, and the caption
+// says so; images of a shape no figure can show are an error (see
+// CheckFigure).
 func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
+	plan, err := planFigure(st, im.Grid, o)
+	if err != nil {
+		return nil, err
+	}
 	bf, df, err := Grays(im, o.FigureMapping)
 	if err != nil {
 		return nil, err
@@ -107,7 +122,12 @@ func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
 	}
 	c := Caption(st)
 	c.Lines = append(c.Lines, MappingNote(o.FigureMapping))
-	return figure.Pair(bf, df, c, figure.Layout{NmPerPx: px, Scale: o.Scale, Caption: o.Caption})
+	if plan.down > 1 {
+		c.Lines = append(c.Lines, fmt.Sprintf("panels reduced %d× (box average); bf.tiff and df.tiff hold every pixel", plan.down))
+		bf, df = reduce(bf, plan.down), reduce(df, plan.down)
+		px *= float64(plan.down)
+	}
+	return figure.Pair(bf, df, c, figure.Layout{NmPerPx: px, Scale: plan.scale, Caption: o.Caption})
 }
 
 // MappingNote says in words how grey levels relate to intensity.
@@ -148,12 +168,13 @@ const (
 )
 
 // WriteAll writes bf.png, df.png, figure.png, bf.tiff and df.tiff into dir
-// (created if missing). sceneJSON is stored in a text chunk of every PNG so
-// the image carries what made it.
-func WriteAll(dir string, st *scene.Setup, im *sim.Image, sceneJSON []byte, o Options) error {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return err
-	}
+// (created with its missing parents). sceneJSON is stored in a text chunk
+// of every PNG so the image carries what made it. Everything is encoded
+// before the first file is touched, and the files are written as one set
+// (atomicfile.WriteSet): a failure, or a cancelled ctx, leaves the
+// directory as it was. A failure to write is an *atomicfile.Error naming
+// the directory or file.
+func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, sceneJSON []byte, o Options) error {
 	text := map[string]string{KeyScene: string(sceneJSON), KeySoftware: "Faultline"}
 	bf, df, err := Grays(im, o.Mapping)
 	if err != nil {
@@ -164,18 +185,13 @@ func WriteAll(dir string, st *scene.Setup, im *sim.Image, sceneJSON []byte, o Op
 		return err
 	}
 	g := im.Grid
-	for _, w := range []func() error{
-		func() error { return figure.WritePNG(filepath.Join(dir, "bf.png"), bf, text) },
-		func() error { return figure.WritePNG(filepath.Join(dir, "df.png"), df, text) },
-		func() error { return figure.WritePNG(filepath.Join(dir, "figure.png"), fig, text) },
-		func() error { return figure.WriteFloatTIFF(filepath.Join(dir, "bf.tiff"), im.BF(), g.NX, g.NY) },
-		func() error { return figure.WriteFloatTIFF(filepath.Join(dir, "df.tiff"), im.DF(), g.NX, g.NY) },
-	} {
-		if err := w(); err != nil {
-			return err
-		}
-	}
-	return nil
+	return atomicfile.WriteSet(ctx, dir, []atomicfile.File{
+		{Name: "bf.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
+		{Name: "df.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, df, text) }},
+		{Name: "figure.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }},
+		{Name: "bf.tiff", Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.BF(), g.NX, g.NY) }},
+		{Name: "df.tiff", Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.DF(), g.NX, g.NY) }},
+	})
 }
 
 // Row returns the index of the pixel row whose centre is nearest y (nm).

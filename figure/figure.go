@@ -28,6 +28,23 @@ func Pair(bf, df *image.Gray, c Caption, l Layout) (*image.RGBA, error) {
 	return compose([]*image.Gray{bf, df}, []string{"BF", "DF"}, c, l)
 }
 
+// CheckPair reports whether Pair can lay out two panels of w × h image
+// pixels with caption c and layout l, without drawing anything.
+func CheckPair(w, h int, c Caption, l Layout) error {
+	if w <= 0 || h <= 0 {
+		return fmt.Errorf("figure: CheckPair: panels of %d×%d px", w, h)
+	}
+	_, err := layout(w, h, []string{"BF", "DF"}, c, l)
+	return err
+}
+
+// AutoScale is the upscaling Layout.Scale 0 chooses for n panels w pixels
+// wide: the smallest that makes the figure at least MinWidthPx wide.
+func AutoScale(n, w int) int { return max(1, (MinWidthPx+n*w-1)/(n*w)) }
+
+// MaxFigurePx bounds either side of a figure, in pixels.
+const MaxFigurePx = maxFigurePx
+
 // Single draws one image with its label (none if empty), a scale bar, the
 // g arrow and, if l.Caption, the conditions below.
 func Single(img *image.Gray, label string, c Caption, l Layout) (*image.RGBA, error) {

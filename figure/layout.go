@@ -88,7 +88,7 @@ func layout(w, h int, labels []string, c Caption, l Layout) (*geometry, error) {
 	n := len(labels)
 	s := l.Scale
 	if s == 0 {
-		s = max(1, (MinWidthPx+n*w-1)/(n*w))
+		s = AutoScale(n, w)
 	}
 	pw, ph := w*s, h*s
 	if n*pw > maxFigurePx || ph > maxFigurePx {

@@ -3,10 +3,15 @@ package main
 import (
 	"context"
 	"encoding/json"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
 	"time"
 
 	"faultline/export"
@@ -14,28 +19,86 @@ import (
 	"faultline/sim"
 )
 
-func cmdRender(ctx context.Context, args []string, stderr io.Writer) error {
-	fs := flag.NewFlagSet("render", flag.ContinueOnError)
+// errHelp is returned after a command's --help has printed its usage.
+var errHelp = errors.New("help shown")
+
+// command usages, printed by COMMAND --help (on stdout, exit 0).
+var commandUsage = map[string]string{
+	"render": `usage: faultline render SCENE -o DIR
+
+Simulates SCENE and writes into DIR (created with its missing parents):
+bf.png, df.png (8-bit, grey = 255·I), figure.png (the labelled pair),
+bf.tiff, df.tiff (32-bit float, fraction of the incident beam). The five
+files are written as one set: a failure leaves DIR as it was.
+
+  -o DIR   the output directory (required)
+  --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
+`,
+	"profile": `usage: faultline profile SCENE [--y-nm Y]
+       faultline profile SCENE --from X,Y --to X,Y
+
+CSV on stdout. With --y-nm (default 0, the centre): header x_nm,bf,df, one
+row per pixel column of the pixel row nearest y = Y nm. With --from and
+--to (nm in the image frame): header distance_nm,x_nm,y_nm,bf,df, about two
+samples per pixel along the line, interpolated between pixel centres.
+
+  --y-nm Y        y of the row, nm
+  --from X,Y      start of the line, nm
+  --to X,Y        end of the line, nm
+  --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
+`,
+	"reflections": `usage: faultline reflections SCENE [--json]
+
+The scene's g, then the reflections of the zone of the beam direction up
+to 3|g|: hkl, d_nm, ξ_g, s and w in the scene's orientation. Needs the
+crystal and the diffraction conditions only (not the defects).
+
+  --json   write JSON (fields described in the README)
+  --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
+`,
+}
+
+func newFlags(name string) *flag.FlagSet {
+	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	return fs
+}
+
+func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) error {
+	fs := newFlags("render")
 	out := fs.String("o", "", "output directory")
 	set := setFlag(fs)
-	path, err := parse(fs, args)
+	path, err := parse(fs, args, stdout)
 	if err != nil {
 		return err
 	}
 	if *out == "" {
 		return usageError{"render: give the output directory with -o DIR"}
 	}
-	st, data, err := load(path, *set...)
+	if err := checkOutputDir(*out); err != nil {
+		return err
+	}
+	st, data, err := load(path, true, *set...)
 	if err != nil {
+		return err
+	}
+	o := export.DefaultOptions()
+	// A figure that cannot be drawn is refused before the render.
+	if err := export.CheckFigure(st, o); err != nil {
 		return err
 	}
 	start := time.Now()
-	im, err := export.Render(ctx, st, sim.Options{Progress: progress(stderr, "render")})
+	p := newProgress(stderr, "render")
+	im, err := export.Render(ctx, st, sim.Options{Progress: p.update})
+	p.finish()
 	if err != nil {
 		return err
 	}
-	if err := export.WriteAll(*out, st, im, data, export.DefaultOptions()); err != nil {
-		return fmt.Errorf("-o %s: %w", *out, err)
+	if err := export.WriteAll(ctx, *out, st, im, data, o); err != nil {
+		if errors.Is(err, context.Canceled) {
+			return err
+		}
+		return outputError{*out, err}
 	}
 	// Notes (defaults applied, values derived) only once all went well, so
 	// a failure is the one line on stderr.
@@ -44,52 +107,150 @@ func cmdRender(ctx context.Context, args []string, stderr io.Writer) error {
 	}
 	if isTerminal(stderr) {
 		g := st.Problem.Grid
-		fmt.Fprintf(stderr, "\rrendered %d×%d columns in %.2f s into %s\n", g.NX, g.NY, time.Since(start).Seconds(), *out)
+		fmt.Fprintf(stderr, "rendered %d×%d columns in %.2f s into %s\n", g.NX, g.NY, time.Since(start).Seconds(), *out)
 	}
 	return nil
 }
 
+// checkOutputDir refuses, before any work, an -o that cannot be a
+// directory: an existing file or device, or a path under one.
+func checkOutputDir(dir string) error {
+	for p := filepath.Clean(dir); ; p = filepath.Dir(p) {
+		fi, err := os.Stat(p)
+		if err == nil {
+			if !fi.IsDir() {
+				if p == filepath.Clean(dir) {
+					return outputError{dir, errors.New("not a directory")}
+				}
+				return outputError{dir, fmt.Errorf("%s is not a directory", p)}
+			}
+			return nil
+		}
+		if q := filepath.Dir(p); q == p {
+			return nil
+		}
+	}
+}
+
 func cmdProfile(ctx context.Context, args []string, stdout io.Writer) error {
-	fs := flag.NewFlagSet("profile", flag.ContinueOnError)
+	fs := newFlags("profile")
 	y := fs.Float64("y-nm", 0, "y of the row, nm (0: the centre)")
+	from := fs.String("from", "", "start of a line, X,Y nm")
+	to := fs.String("to", "", "end of a line, X,Y nm")
 	set := setFlag(fs)
-	path, err := parse(fs, args)
+	path, err := parse(fs, args, stdout)
 	if err != nil {
 		return err
 	}
-	st, _, err := load(path, *set...)
+	given := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
+	line := given["from"] || given["to"]
+	if line && given["y-nm"] {
+		return usageError{"profile: give --y-nm, or --from and --to, not both"}
+	}
+	if line && !(given["from"] && given["to"]) {
+		return usageError{"profile: a line needs both --from X,Y and --to X,Y"}
+	}
+	if !finite(*y) {
+		return usageError{"--y-nm: must be a finite number"}
+	}
+	var l export.Line
+	if line {
+		if l.X0, l.Y0, err = point("--from", *from); err != nil {
+			return err
+		}
+		if l.X1, l.Y1, err = point("--to", *to); err != nil {
+			return err
+		}
+	}
+	st, _, err := load(path, true, *set...)
 	if err != nil {
 		return err
 	}
 	g := st.Problem.Grid
-	j, err := export.Row(g, *y)
-	if err != nil {
+	// Rows needed: all with a blur (it spreads across rows); else those
+	// the row or line touches (and their neighbours, for interpolation).
+	j0, j1 := 0, g.NY
+	if b := st.Scene.Image.BlurNm; b == nil || *b == 0 {
+		if line {
+			if l.LengthNm() == 0 {
+				return usageError{"profile: --from and --to are the same point"}
+			}
+			a, b := rowOf(g, math.Min(l.Y0, l.Y1)), rowOf(g, math.Max(l.Y0, l.Y1))
+			j0, j1 = max(a-1, 0), min(b+2, g.NY)
+		} else {
+			j, err := export.Row(g, *y)
+			if err != nil {
+				return usageError{"--y-nm: " + err.Error()}
+			}
+			j0, j1 = j, j+1
+		}
+	}
+	if line {
+		if !lineMeetsField(g, l) {
+			return usageError{fmt.Sprintf("profile: the line from (%g, %g) to (%g, %g) nm does not cross the field (%g × %g nm, centred on 0)", l.X0, l.Y0, l.X1, l.Y1, g.WidthNm, g.HeightNm)}
+		}
+	} else if _, err := export.Row(g, *y); err != nil {
 		return usageError{"--y-nm: " + err.Error()}
 	}
-	if b := st.Scene.Image.BlurNm; b != nil && *b > 0 {
-		// The blur needs the neighbouring rows: render the whole image.
-		im, err := export.Render(ctx, st, sim.Options{})
-		if err != nil {
-			return err
-		}
-		return export.WriteProfile(stdout, im, *y)
+	var im *sim.Image
+	if j0 == 0 && j1 == g.NY {
+		im, err = export.Render(ctx, st, sim.Options{})
+	} else {
+		im, err = sim.RenderRows(ctx, st.Problem, j0, j1, sim.Options{})
 	}
-	// Only the one row is needed.
-	im, err := sim.RenderRows(ctx, st.Problem, j, j+1, sim.Options{})
 	if err != nil {
 		return err
+	}
+	if line {
+		return export.WriteLineProfile(stdout, export.SampleLine(im, l))
 	}
 	return export.WriteProfile(stdout, im, *y)
 }
 
+// rowOf is the pixel row holding y, clamped to the image.
+func rowOf(g sim.Grid, y float64) int {
+	j := int(math.Floor(y/(g.HeightNm/float64(g.NY)) + float64(g.NY)/2))
+	return min(max(j, 0), g.NY-1)
+}
+
+// lineMeetsField reports whether some sample of the line lies in the field.
+func lineMeetsField(g sim.Grid, l export.Line) bool {
+	for k := 0; k <= 1000; k++ {
+		t := float64(k) / 1000
+		if math.Abs(l.X0+t*(l.X1-l.X0)) <= g.WidthNm/2 && math.Abs(l.Y0+t*(l.Y1-l.Y0)) <= g.HeightNm/2 {
+			return true
+		}
+	}
+	return false
+}
+
+// point reads "X,Y" in nm.
+func point(flagName, s string) (x, y float64, err error) {
+	a, b, ok := strings.Cut(s, ",")
+	if ok {
+		x, err = strconv.ParseFloat(strings.TrimSpace(a), 64)
+		if err == nil {
+			y, err = strconv.ParseFloat(strings.TrimSpace(b), 64)
+		}
+	}
+	if !ok || err != nil || !finite(x) || !finite(y) || math.Abs(x) > 1e6 || math.Abs(y) > 1e6 {
+		return 0, 0, usageError{fmt.Sprintf("%s: %s: want X,Y in nm, two finite numbers within ±1e6 (for example 0,-20.5)", flagName, cutQuoted(strconv.Quote(s)))}
+	}
+	return x, y, nil
+}
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
 func cmdReflections(args []string, stdout io.Writer) error {
-	fs := flag.NewFlagSet("reflections", flag.ContinueOnError)
+	fs := newFlags("reflections")
 	asJSON := fs.Bool("json", false, "write JSON")
-	path, err := parse(fs, args)
+	set := setFlag(fs)
+	path, err := parse(fs, args, stdout)
 	if err != nil {
 		return err
 	}
-	st, _, err := load(path)
+	st, _, err := load(path, false, *set...)
 	if err != nil {
 		return err
 	}
@@ -98,57 +259,70 @@ func cmdReflections(args []string, stdout io.Writer) error {
 		return err
 	}
 	if *asJSON {
-		enc := json.NewEncoder(stdout)
-		enc.SetIndent("", "  ")
-		return enc.Encode(struct {
-			WavelengthNm float64            `json:"wavelength_nm"`
-			VoltageKV    float64            `json:"voltage_kv"`
-			Reflections  []scene.Reflection `json:"reflections"`
-		}{st.WavelengthNm, st.VoltageKV, refl})
+		return export.WriteReflectionsJSON(stdout, st, refl)
 	}
-	fmt.Fprintf(stdout, "%s at %g kV, λ = %.5f nm, beam [%s]\n", st.Crystal.Name, st.VoltageKV, st.WavelengthNm, export.Indices(st.Scene.Diffraction.Beam))
-	fmt.Fprintf(stdout, "%-14s %9s %12s %10s %9s\n", "hkl", "d_nm", "ξ_g (nm)", "s (/nm)", "w")
-	for i, r := range refl {
-		mark := ""
-		if i == 0 {
-			mark = "  <- g of the scene"
-		}
-		if r.Forbidden {
-			fmt.Fprintf(stdout, "%-14s %9.4f %12s %10.4f %9s%s\n", export.Indices(r.HKL), r.DNm, "forbidden", r.SPerNm, "-", mark)
-			continue
-		}
-		fmt.Fprintf(stdout, "%-14s %9.4f %12.2f %10.4f %9.2f%s\n", export.Indices(r.HKL), r.DNm, *r.ExtinctionNm, r.SPerNm, *r.W, mark)
-	}
-	return nil
+	return export.WriteReflectionsText(stdout, st, refl)
 }
 
-// progress returns a progress callback: on a terminal it redraws one
-// status line; otherwise, once the work has run for two seconds, it writes
-// a line at every tenth, so long work shows it is moving without filling
-// logs for short work.
-func progress(w io.Writer, what string) func(done, total int) {
-	start := time.Now()
-	tty := isTerminal(w)
-	last := -1
-	return func(done, total int) {
-		pct := 100 * done / total
-		switch {
-		case tty && pct != last:
-			fmt.Fprintf(w, "\r%s: %3d%%", what, pct)
-		case !tty && pct/10 != last/10 && time.Since(start) > 2*time.Second:
-			fmt.Fprintf(w, "%s: %d%%\n", what, pct/10*10)
-		default:
-			return
+// parse reads one positional argument (the scene file) and the flags of fs,
+// in any order. -h or --help prints the command's usage on stdout and
+// returns errHelp.
+func parse(fs *flag.FlagSet, args []string, stdout io.Writer) (string, error) {
+	fs.SetOutput(io.Discard)
+	var pos []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			if errors.Is(err, flag.ErrHelp) {
+				if u, ok := commandUsage[fs.Name()]; ok {
+					fmt.Fprint(stdout, u)
+				} else {
+					fmt.Fprintf(stdout, "usage: faultline %s (see faultline --help)\n\n", fs.Name())
+					fs.SetOutput(stdout)
+					fs.PrintDefaults()
+					fs.SetOutput(io.Discard)
+				}
+				return "", errHelp
+			}
+			return "", usageError{fmt.Sprintf("%s: %s (see faultline %s --help)", fs.Name(), cutQuoted(err.Error()), fs.Name())}
 		}
-		last = pct
+		args = fs.Args()
+		if len(args) == 0 {
+			break
+		}
+		pos = append(pos, args[0])
+		args = args[1:]
 	}
+	if len(pos) != 1 {
+		return "", usageError{fmt.Sprintf("%s: give one scene file (got %d arguments; see faultline %s --help)", fs.Name(), len(pos), fs.Name())}
+	}
+	return pos[0], nil
 }
 
-func isTerminal(w io.Writer) bool {
-	f, ok := w.(*os.File)
-	if !ok {
-		return false
+// load reads a scene file, applies the overrides in order and builds it;
+// without defects, only the crystal and the conditions are built (what
+// reflections needs).
+func load(path string, withDefects bool, set ...scene.Edit) (*scene.Setup, []byte, error) {
+	sc, err := scene.Load(path)
+	if err != nil {
+		return nil, nil, err
 	}
-	fi, err := f.Stat()
-	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+	for _, e := range set {
+		if err := scene.SetJSON(sc, e.Path, string(e.Value.(json.RawMessage))); err != nil {
+			return nil, nil, fmt.Errorf("--set %w", err)
+		}
+	}
+	data, err := scene.Marshal(sc)
+	if err != nil {
+		return nil, nil, err
+	}
+	if !withDefects {
+		cp := *sc
+		cp.Defects = nil
+		sc = &cp
+	}
+	st, err := scene.Build(sc, filepath.Dir(path))
+	if err != nil {
+		return nil, nil, err
+	}
+	return st, data, nil
 }

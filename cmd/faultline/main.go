@@ -12,9 +12,11 @@ import (
 	"io"
 	"os"
 	"os/signal"
-	"path/filepath"
+	"regexp"
 	"strings"
+	"syscall"
 
+	"faultline/internal/atomicfile"
 	"faultline/match"
 	"faultline/micrograph"
 	"faultline/scene"
@@ -22,9 +24,10 @@ import (
 
 // Exit statuses.
 const (
-	exitOK       = 0
-	exitInternal = 1
-	exitBadInput = 2
+	exitOK          = 0
+	exitInternal    = 1
+	exitBadInput    = 2
+	exitInterrupted = 130 // 128 + SIGINT, as shells report it
 )
 
 // usageError is bad use of the command line itself.
@@ -32,35 +35,61 @@ type usageError struct{ msg string }
 
 func (e usageError) Error() string { return e.msg }
 
+// outputError is a failure to write the results where -o points: the
+// environment's fault (a file in the way, no permission, a full disk), so
+// bad input, not an internal failure.
+type outputError struct {
+	dir string
+	err error
+}
+
+func (e outputError) Error() string {
+	var ae *atomicfile.Error
+	if errors.As(e.err, &ae) {
+		if ae.Path == e.dir {
+			return fmt.Sprintf("-o %s: %s", e.dir, ae.Err)
+		}
+		return fmt.Sprintf("-o %s: cannot %s %s: %s", e.dir, ae.Op, strings.TrimPrefix(strings.TrimPrefix(ae.Path, e.dir), string(os.PathSeparator)), ae.Err)
+	}
+	return fmt.Sprintf("-o %s: %v", e.dir, e.err)
+}
+
+func (e outputError) Unwrap() error { return e.err }
+
 const usage = `usage:
-  faultline render SCENE -o DIR        write bf.png, df.png, figure.png, bf.tiff, df.tiff
-  faultline profile SCENE [--y-nm Y]   CSV x_nm,bf,df along the pixel row nearest y = Y nm
-  faultline reflections SCENE [--json] g and the reflections of the zone
+  faultline render SCENE -o DIR           write bf.png, df.png, figure.png, bf.tiff, df.tiff
+  faultline profile SCENE [--y-nm Y]      CSV x_nm,bf,df along the pixel row nearest y = Y nm
+  faultline profile SCENE --from X,Y --to X,Y
+                                          CSV distance_nm,x_nm,y_nm,bf,df along a line
+  faultline reflections SCENE [--json]    g and the reflections of the zone
   faultline identify SET [--json] [-o DIR]
-                                       rank candidate Burgers vectors (or a loop's
-                                       nature, a fault's kind) against a g·b series
+                                          rank candidate Burgers vectors (or a loop's
+                                          nature, a fault's kind) against a g·b series
   faultline fit SCENE --micrograph IMG [--nm-per-px P] [--g-angle-deg A]
                 [--kind bf|df] [--defect K] [--blur-nm S] [--json]
-                                       fit thickness, s and the defect's depth
+                                          fit thickness, s and the defect's depth
+  faultline COMMAND --help                the options of a command
 
-render and profile take --set PATH=VALUE (repeatable): a field of the
-scene by its path, the value in JSON, e.g. --set foil.thickness_nm=80
---set 'diffraction.g=[1,1,-1]' --set 'defects[0].b="1/2[1 0 1]"'
+render, profile and reflections take --set PATH=VALUE (repeatable): a
+field of the scene by its path, the value in JSON, e.g. --set
+foil.thickness_nm=80 --set 'diffraction.g=[1,1,-1]' --set
+'defects[0].b="1/2[1 0 1]"'
 `
 
 func main() {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
 	stop()
 	os.Exit(code)
 }
 
 // run executes one command and returns the exit status. No panic escapes:
-// an internal failure is reported in one line with status 1.
+// an internal failure is reported in one line with status 1. A failure is
+// one line on stderr, the last one written.
 func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int) {
 	defer func() {
 		if r := recover(); r != nil {
-			fmt.Fprintf(stderr, "error: internal failure: %v (please report this with the scene file)\n", r)
+			fmt.Fprintln(stderr, errorLine(fmt.Errorf("internal failure: %v (please report this with the scene file)", r)))
 			code = exitInternal
 		}
 	}()
@@ -71,7 +100,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 	var err error
 	switch args[0] {
 	case "render":
-		err = cmdRender(ctx, args[1:], stderr)
+		err = cmdRender(ctx, args[1:], stdout, stderr)
 	case "profile":
 		err = cmdProfile(ctx, args[1:], stdout)
 	case "reflections":
@@ -82,49 +111,60 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 		err = cmdFit(ctx, args[1:], stdout, stderr)
 	case "plan":
 		err = usageError{fmt.Sprintf("%s is not built yet; this version has render, profile, reflections, identify and fit", args[0])}
-	case "-h", "--help", "help":
+	case "-h", "--help", "-help", "help":
 		fmt.Fprint(stdout, usage)
 		return exitOK
 	default:
-		err = usageError{fmt.Sprintf("unknown command %q; the commands are render, profile, reflections", args[0])}
+		err = usageError{fmt.Sprintf("unknown command %s; the commands are render, profile, reflections, identify, fit", cutQuoted(fmt.Sprintf("%q", args[0])))}
 	}
-	if err == nil {
+	if err == nil || errors.Is(err, errHelp) {
 		return exitOK
 	}
-	fmt.Fprintln(stderr, "error: "+oneLine(err.Error()))
+	if errors.Is(err, context.Canceled) {
+		fmt.Fprintln(stderr, "error: interrupted")
+		return exitInterrupted
+	}
+	fmt.Fprintln(stderr, errorLine(err))
 	var ue usageError
+	var oe outputError
 	switch {
-	case errors.As(err, &ue), errors.Is(err, scene.ErrInvalid), errors.Is(err, os.ErrNotExist),
+	case errors.As(err, &ue), errors.As(err, &oe), errors.Is(err, scene.ErrInvalid), errors.Is(err, os.ErrNotExist),
 		errors.Is(err, match.ErrSeries), errors.Is(err, micrograph.ErrInvalid):
 		return exitBadInput
-	case errors.Is(err, context.Canceled):
-		return exitInternal
 	}
 	return exitInternal
 }
 
+// maxLine bounds an error line, in bytes.
+const maxLine = 600
+
+// errorLine is the one line that reports err: "error: " and the message on
+// one line, quoted values cut to a readable length, the whole bounded.
+func errorLine(err error) string {
+	s := cutQuoted(oneLine(err.Error()))
+	if len(s) > maxLine {
+		s = strings.ToValidUTF8(s[:maxLine], "") + "…"
+	}
+	return "error: " + s
+}
+
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 
-// parse reads one positional argument (the scene file) and the flags of fs,
-// in any order.
-func parse(fs *flag.FlagSet, args []string) (string, error) {
-	fs.SetOutput(io.Discard)
-	var pos []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return "", usageError{fmt.Sprintf("%s: %v", fs.Name(), err)}
+// maxQuoted is the longest quoted value an error line repeats in full.
+const maxQuoted = 60
+
+var quoted = regexp.MustCompile(`"(?:[^"\\]|\\.)*"`)
+
+// cutQuoted shortens every quoted value longer than maxQuoted characters
+// to its start and an ellipsis, saying how long it was.
+func cutQuoted(s string) string {
+	return quoted.ReplaceAllStringFunc(s, func(q string) string {
+		r := []rune(q)
+		if len(r) <= maxQuoted+2 {
+			return q
 		}
-		args = fs.Args()
-		if len(args) == 0 {
-			break
-		}
-		pos = append(pos, args[0])
-		args = args[1:]
-	}
-	if len(pos) != 1 {
-		return "", usageError{fmt.Sprintf("%s: give one scene file (got %d arguments)", fs.Name(), len(pos))}
-	}
-	return pos[0], nil
+		return fmt.Sprintf("%s…\" (%d characters)", string(r[:maxQuoted*2/3]), len(r)-2)
+	})
 }
 
 // overrides collects the --set PATH=VALUE flags of a command.
@@ -136,7 +176,7 @@ func (o *overrides) String() string { return "" }
 func (o *overrides) Set(text string) error {
 	path, value, ok := strings.Cut(text, "=")
 	if !ok || path == "" {
-		return fmt.Errorf("%q: write PATH=VALUE, e.g. foil.thickness_nm=80", text)
+		return fmt.Errorf("%s: write PATH=VALUE, e.g. foil.thickness_nm=80", cutQuoted(fmt.Sprintf("%q", text)))
 	}
 	*o = append(*o, scene.Edit{Path: path, Value: json.RawMessage(value)})
 	return nil
@@ -147,26 +187,4 @@ func setFlag(fs *flag.FlagSet) *overrides {
 	o := &overrides{}
 	fs.Var(o, "set", "PATH=VALUE: override a field of the scene (JSON value; repeatable)")
 	return o
-}
-
-// load reads a scene file, applies the overrides in order and builds it.
-func load(path string, set ...scene.Edit) (*scene.Setup, []byte, error) {
-	sc, err := scene.Load(path)
-	if err != nil {
-		return nil, nil, err
-	}
-	for _, e := range set {
-		if err := scene.SetJSON(sc, e.Path, string(e.Value.(json.RawMessage))); err != nil {
-			return nil, nil, fmt.Errorf("--set %w", err)
-		}
-	}
-	st, err := scene.Build(sc, filepath.Dir(path))
-	if err != nil {
-		return nil, nil, err
-	}
-	data, err := scene.Marshal(sc)
-	if err != nil {
-		return nil, nil, err
-	}
-	return st, data, nil
 }

@@ -26,7 +26,7 @@ func TestRunExitStatus(t *testing.T) {
 		{[]string{"plan", bad}, exitBadInput, "error: plan is not built yet"},
 		{[]string{"render", bad, "-o", dir}, exitBadInput, "error: colour: unknown field"},
 		{[]string{"render", bad}, exitBadInput, "error: render: give the output directory with -o DIR"},
-		{[]string{"reflections", bad, bad}, exitBadInput, "error: reflections: give one scene file (got 2 arguments)"},
+		{[]string{"reflections", bad, bad}, exitBadInput, "error: reflections: give one scene file (got 2 arguments;"},
 		{[]string{"profile", filepath.Join(dir, "none.json")}, exitBadInput, "error: scene file"},
 	} {
 		var stdout, stderr bytes.Buffer

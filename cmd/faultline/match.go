@@ -25,7 +25,7 @@ func cmdIdentify(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	fs := flag.NewFlagSet("identify", flag.ContinueOnError)
 	asJSON := fs.Bool("json", false, "print the ranking as JSON")
 	out := fs.String("o", "", "directory for the contact sheet identify.png")
-	path, err := parse(fs, args)
+	path, err := parse(fs, args, stdout)
 	if err != nil {
 		return err
 	}
@@ -36,7 +36,9 @@ func cmdIdentify(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	for _, n := range notes {
 		fmt.Fprintln(stderr, "note: "+n)
 	}
-	ranked, err := match.Identify(ctx, s, match.Options{Progress: progress(stderr, "identify")})
+	p := newProgress(stderr, "identify")
+	ranked, err := match.Identify(ctx, s, match.Options{Progress: p.update})
+	p.finish()
 	if err != nil {
 		return err
 	}
@@ -215,7 +217,7 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	blur := fs.Float64("blur-nm", 0, "σ of a Gaussian blur applied to the simulation, nm")
 	asJSON := fs.Bool("json", false, "print the result as JSON")
 	set := setFlag(fs)
-	path, err := parse(fs, args)
+	path, err := parse(fs, args, stdout)
 	if err != nil {
 		return err
 	}
