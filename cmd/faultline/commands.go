@@ -8,13 +8,13 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"time"
 
 	"faultline/export"
+	"faultline/internal/atomicfile"
 	"faultline/scene"
 	"faultline/sim"
 )
@@ -112,24 +112,16 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	return nil
 }
 
-// checkOutputDir refuses, before any work, an -o that cannot be a
-// directory: an existing file or device, or a path under one.
+// checkOutputDir refuses, before any work, an -o that cannot take the
+// files: an existing file or device, a path under one, a directory that
+// cannot be created or written. It creates the directory (and its missing
+// parents) and probes it with a temporary file; a full disk shows only
+// when the files are written.
 func checkOutputDir(dir string) error {
-	for p := filepath.Clean(dir); ; p = filepath.Dir(p) {
-		fi, err := os.Stat(p)
-		if err == nil {
-			if !fi.IsDir() {
-				if p == filepath.Clean(dir) {
-					return outputError{dir, errors.New("not a directory")}
-				}
-				return outputError{dir, fmt.Errorf("%s is not a directory", p)}
-			}
-			return nil
-		}
-		if q := filepath.Dir(p); q == p {
-			return nil
-		}
+	if err := atomicfile.Probe(dir); err != nil {
+		return outputError{dir, err}
 	}
+	return nil
 }
 
 func cmdProfile(ctx context.Context, args []string, stdout io.Writer) error {

@@ -47,7 +47,10 @@ func (e outputError) Error() string {
 	var ae *atomicfile.Error
 	if errors.As(e.err, &ae) {
 		if ae.Path == e.dir {
-			return fmt.Sprintf("-o %s: %s", e.dir, ae.Err)
+			if ae.Op == "write into" {
+				return fmt.Sprintf("-o %s: %s", e.dir, ae.Err)
+			}
+			return fmt.Sprintf("-o %s: cannot %s: %s", e.dir, ae.Op, ae.Err)
 		}
 		return fmt.Sprintf("-o %s: cannot %s %s: %s", e.dir, ae.Op, strings.TrimPrefix(strings.TrimPrefix(ae.Path, e.dir), string(os.PathSeparator)), ae.Err)
 	}

@@ -24,11 +24,8 @@ type File struct {
 // removes its temporaries and returns ctx.Err(). Errors are *Error and
 // name the target, never a temporary.
 func WriteSet(ctx context.Context, dir string, files []File) (err error) {
-	if fi, serr := os.Stat(dir); serr == nil && !fi.IsDir() {
-		return &Error{Op: "write into", Path: dir, Err: errors.New("not a directory")}
-	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return fail("create the directory", dir, err)
+	if err := makeDir(dir); err != nil {
+		return err
 	}
 	ClearStale(dir)
 	var temps []string
@@ -89,5 +86,33 @@ func WriteSet(ctx context.Context, dir string, files []File) (err error) {
 	}
 	temps = nil
 	syncDir(dir)
+	return nil
+}
+
+// makeDir creates dir with its missing parents; a file in the way is an
+// *Error saying so.
+func makeDir(dir string) error {
+	if fi, err := os.Stat(dir); err == nil && !fi.IsDir() {
+		return &Error{Op: "write into", Path: dir, Err: errors.New("not a directory")}
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fail("create the directory", dir, err)
+	}
+	return nil
+}
+
+// Probe checks, before long work, that files can be written into dir: it
+// creates dir with its missing parents, then creates and removes a
+// temporary file there. Errors are *Error naming dir.
+func Probe(dir string) error {
+	if err := makeDir(dir); err != nil {
+		return err
+	}
+	f, err := CreateTemp(dir, tempPattern("probe"))
+	if err != nil {
+		return fail("write into", dir, err)
+	}
+	f.Close()
+	os.Remove(f.Name())
 	return nil
 }
