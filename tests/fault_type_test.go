@@ -53,7 +53,7 @@ func outerFringes(t *testing.T, g, beam vec3, shift string) (bfT, bfB, dfT, dfB,
 	bf, df := contrast(st, im, 0), contrast(st, im, 1)
 	var nT, nB float64
 	for i := 0; i < nx; i++ {
-		zf := th/2 - im.Grid.X(i)/ratio
+		zf := th/2 - pixelX(im, i)/ratio
 		switch {
 		case zf > 0.05*xi && zf < 0.4*xi:
 			bfT += bf[i]

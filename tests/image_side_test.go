@@ -57,7 +57,7 @@ func renderDislocation(t *testing.T, c dislocationCase) (d, con []float64, nx, n
 	d = make([]float64, nx*ny)
 	for j := 0; j < ny; j++ {
 		for i := 0; i < nx; i++ {
-			d[j*nx+i] = im.Grid.X(i)*side[0] + im.Grid.Y(j)*side[1]
+			d[j*nx+i] = pixelX(im, i)*side[0] + pixelY(im, j)*side[1]
 		}
 	}
 	return d, con, nx, ny

@@ -48,9 +48,9 @@ func loopProfile(t *testing.T, c loopCase, alongY bool) (pos, con []float64) {
 	pos = make([]float64, len(con))
 	for k := range pos {
 		if alongY {
-			pos[k] = im.Grid.Y(k)
+			pos[k] = pixelY(im, k)
 		} else {
-			pos[k] = im.Grid.X(k)
+			pos[k] = pixelX(im, k)
 		}
 	}
 	return pos, con

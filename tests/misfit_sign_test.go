@@ -25,7 +25,7 @@ func lobes(t *testing.T, g vec3, defect string, thick float64, depth func(xi flo
 	bf, df := contrast(st, im, 0), contrast(st, im, 1)
 	var np, nm float64
 	for i := range bf {
-		x := im.Grid.X(i)
+		x := pixelX(im, i)
 		switch {
 		case x > 1.5 && x < 7:
 			bfPlus += bf[i]

@@ -64,3 +64,17 @@ func contrast(st *scene.Setup, im *sim.Image, k int) []float64 {
 	}
 	return out
 }
+
+// pixelX and pixelY give the image-frame position of pixel column i and
+// row j by the README's formula, x = (i + 0.5 − nx/2)·width/nx, so that a
+// picture mirrored or shifted by the program is caught rather than
+// followed.
+func pixelX(im *sim.Image, i int) float64 {
+	g := im.Grid
+	return (float64(i) + 0.5 - float64(g.NX)/2) * g.WidthNm / float64(g.NX)
+}
+
+func pixelY(im *sim.Image, j int) float64 {
+	g := im.Grid
+	return (float64(j) + 0.5 - float64(g.NY)/2) * g.HeightNm / float64(g.NY)
+}
