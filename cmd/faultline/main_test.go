@@ -3,10 +3,19 @@ package main
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
+	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
+	"time"
+
+	"faultline/export"
+	"faultline/scene"
+	"faultline/sim"
 )
 
 // The exit statuses of the design (0 success, 2 bad input, 1 internal),
@@ -94,4 +103,305 @@ func TestRunSet(t *testing.T) {
 			t.Errorf("%v: exit %d, stderr %q; want 2 and one line %q", c.args, code, stderr.String(), c.want)
 		}
 	}
+}
+
+// sceneText is a small scene; fields are filled by fmt with the pixel
+// counts and extra image fields.
+func sceneText(nx, ny int, extra string) string {
+	w := 100.0
+	h := w * float64(ny) / float64(nx)
+	return fmt.Sprintf(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01},
+  "foil": {"thickness_nm": 60},
+  "defects": [{"type": "dislocation", "b": "1/2[1 1 0]", "line": [0, 0, 1], "at_nm": [0, 0, 30]}],
+  "image": {"width_nm": %g, "height_nm": %g, "pixels": [%d, %d]%s}}`, w, h, nx, ny, extra)
+}
+
+func writeFile(t *testing.T, name, text string) string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+func runCLI(args ...string) (stdout, stderr string, code int) {
+	var o, e bytes.Buffer
+	code = run(context.Background(), args, &o, &e)
+	return o.String(), e.String(), code
+}
+
+// oneErrorLine checks the failure contract: the last line of stderr is
+// the only "error:" line and stands alone.
+func oneErrorLine(t *testing.T, args []string, stderr string) string {
+	t.Helper()
+	lines := strings.Split(strings.TrimSuffix(stderr, "\n"), "\n")
+	last := lines[len(lines)-1]
+	if !strings.HasPrefix(last, "error: ") || strings.Count(stderr, "error:") != 1 || !strings.HasSuffix(stderr, "\n") {
+		t.Errorf("%v: stderr %q: want one error line, last", args, stderr)
+	}
+	return last
+}
+
+// TestHelpForEveryCommand: COMMAND --help and -h print the command's usage
+// on stdout and exit 0; no arguments prints the usage on stderr, exit 2.
+func TestHelpForEveryCommand(t *testing.T) {
+	for _, c := range []string{"render", "profile", "reflections", "identify", "fit"} {
+		for _, h := range []string{"--help", "-h"} {
+			out, errOut, code := runCLI(c, h)
+			if code != exitOK || !strings.HasPrefix(out, "usage: faultline "+c) || errOut != "" {
+				t.Errorf("%s %s: exit %d, stdout %q, stderr %q", c, h, code, out, errOut)
+			}
+		}
+	}
+	for _, args := range [][]string{{"--help"}, {"-h"}, {"help"}} {
+		if out, _, code := runCLI(args...); code != exitOK || !strings.HasPrefix(out, "usage:") {
+			t.Errorf("%v: exit %d, %q", args, code, out)
+		}
+	}
+	if _, errOut, code := runCLI(); code != exitBadInput || !strings.HasPrefix(errOut, "usage:") {
+		t.Errorf("no arguments: exit %d, stderr %q", code, errOut)
+	}
+}
+
+// TestOutputErrors: -o where no directory can be: exit 2 (the
+// environment, not the program), one line naming -o and the cause, no
+// temporary name, nothing rendered first (it fails fast), nothing left.
+func TestOutputErrors(t *testing.T) {
+	sc := writeFile(t, "s.json", sceneText(16, 16, ""))
+	file := writeFile(t, "f.txt", "keep")
+	for _, c := range []struct{ o, cause string }{
+		{file, "not a directory"},
+		{filepath.Join(file, "sub"), "not a directory"},
+		{"/dev/null", "not a directory"},
+		{"/dev/full", "not a directory"},
+		{"/proc/self/no/such", "cannot create the directory"},
+	} {
+		args := []string{"render", sc, "-o", c.o}
+		_, errOut, code := runCLI(args...)
+		line := oneErrorLine(t, args, errOut)
+		if code != exitBadInput || !strings.HasPrefix(line, "error: -o "+c.o+": ") || !strings.Contains(line, c.cause) || strings.Contains(line, ".tmp-") {
+			t.Errorf("-o %s: exit %d, %q; want 2 and one line naming -o and %q", c.o, code, line, c.cause)
+		}
+	}
+	if b, _ := os.ReadFile(file); string(b) != "keep" {
+		t.Errorf("the file -o pointed at changed to %q", b)
+	}
+	// A missing parent chain is created.
+	out := filepath.Join(t.TempDir(), "a", "b", "c")
+	if _, errOut, code := runCLI("render", sc, "-o", out); code != exitOK {
+		t.Fatalf("render into a missing chain: exit %d: %s", code, errOut)
+	}
+	ents, _ := os.ReadDir(out)
+	if len(ents) != 5 {
+		t.Errorf("%d files in %s, want 5", len(ents), out)
+	}
+}
+
+// TestErrorLinesAreShort: a huge bad value is cut in the one error line.
+func TestErrorLinesAreShort(t *testing.T) {
+	name := strings.Repeat("Unobtainium", 100_000)
+	sc := writeFile(t, "s.json", strings.Replace(sceneText(8, 8, ""), `"material": "Cu"`, `"material": "`+name+`"`, 1))
+	args := []string{"render", sc, "-o", t.TempDir()}
+	_, errOut, code := runCLI(args...)
+	line := oneErrorLine(t, args, errOut)
+	if code != exitBadInput || len(line) > maxLine+10 || !strings.Contains(line, "crystal.material") {
+		t.Errorf("exit %d, line of %d bytes: %.200q", code, len(line), line)
+	}
+	if got := cutQuoted(`a "` + strings.Repeat("x", 100) + `" b`); !strings.Contains(got, `…" (100 characters) b`) {
+		t.Errorf("cutQuoted: %q", got)
+	}
+}
+
+var (
+	negZero  = regexp.MustCompile(`-0(\.0+)?[,\s\]}]`)
+	longFrac = regexp.MustCompile(`\d\.\d*(9{6,}|0{6,}[1-9])`) // float noise: 0.3999999999999999, 0.1000000000000002
+)
+
+// TestReflectionsJSON: values rounded to the decimals the table shows (no
+// 0.3999999999999999, no −0), every field present, and a crystal without
+// elastic constants lists its reflections even with a dislocation in the
+// scene (listing reflections needs no elasticity).
+func TestReflectionsJSON(t *testing.T) {
+	noElastic := `{"version": 1, "crystal": {"cell": {"a_nm": 0.4, "b_nm": 0.4, "c_nm": 0.4, "alpha_deg": 90, "beta_deg": 90, "gamma_deg": 90},
+	  "atoms": [{"element": "Al", "xyz": [0, 0, 0]}], "centering": "F"},
+	  "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [2, 2, 0], "beam": [0, 0, 1], "w": 0.4},
+	  "foil": {"thickness_nm": 60},
+	  "defects": [{"type": "dislocation", "b": "1/2[1 1 0]", "line": [0, 0, 1], "at_nm": [0, 0, 30]}],
+	  "image": {"width_nm": 100, "height_nm": 100, "pixels": [8, 8]}}`
+	for _, text := range []string{sceneText(8, 8, ""), noElastic} {
+		sc := writeFile(t, "s.json", text)
+		out, errOut, code := runCLI("reflections", sc, "--json")
+		if code != exitOK {
+			t.Fatalf("exit %d: %s", code, errOut)
+		}
+		if m := negZero.FindString(out); m != "" {
+			t.Errorf("-0 in the JSON: %q", m)
+		}
+		if m := longFrac.FindString(out); m != "" {
+			t.Errorf("unrounded number in the JSON: %q", m)
+		}
+		var r struct {
+			Reflections []map[string]any `json:"reflections"`
+		}
+		if err := json.Unmarshal([]byte(out), &r); err != nil || len(r.Reflections) < 2 {
+			t.Fatalf("JSON: %v (%d reflections)", err, len(r.Reflections))
+		}
+		for _, f := range []string{"hkl", "d_nm", "fg_nm", "extinction_nm", "s_per_nm", "w", "forbidden", "scene_g"} {
+			if _, ok := r.Reflections[0][f]; !ok {
+				t.Errorf("field %s missing", f)
+			}
+		}
+		if w := r.Reflections[0]["w"]; text == noElastic && w != 0.4 {
+			t.Errorf("w of the scene's g = %v, want 0.4 as given", w)
+		}
+	}
+}
+
+// TestProfileAlongALine: --from/--to gives what the window's line
+// profile (export.SampleLine over the whole image) gives, though only the
+// rows the line crosses are rendered.
+func TestProfileAlongALine(t *testing.T) {
+	sc := writeFile(t, "s.json", sceneText(32, 32, ""))
+	out, errOut, code := runCLI("profile", sc, "--from", "-40,-10", "--to", "30,25.5")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	s, err := scene.Load(sc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := scene.Build(s, ".")
+	if err != nil {
+		t.Fatal(err)
+	}
+	im, err := export.Render(context.Background(), st, sim.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want bytes.Buffer
+	export.WriteLineProfile(&want, export.SampleLine(im, export.Line{X0: -40, Y0: -10, X1: 30, Y1: 25.5}))
+	if out != want.String() || !strings.HasPrefix(out, "distance_nm,x_nm,y_nm,bf,df\n") {
+		t.Errorf("line profile differs from SampleLine over the whole image:\n%.300s\n%.300s", out, want.String())
+	}
+	for _, args := range [][]string{
+		{"profile", sc, "--from", "0,0"},
+		{"profile", sc, "--from", "0,0", "--to", "1,1", "--y-nm", "3"},
+		{"profile", sc, "--from", "0;0", "--to", "1,1"},
+		{"profile", sc, "--from", "NaN,0", "--to", "1,1"},
+		{"profile", sc, "--from", "500,500", "--to", "600,600"},
+	} {
+		_, errOut, code := runCLI(args...)
+		oneErrorLine(t, args, errOut)
+		if code != exitBadInput {
+			t.Errorf("%v: exit %d", args, code)
+		}
+	}
+}
+
+// TestFigureShapes: pixel counts the scene accepts either give a figure
+// (scaled to fit) or are refused before rendering, naming image.pixels.
+func TestFigureShapes(t *testing.T) {
+	for _, c := range []struct {
+		nx, ny int
+		ok     bool
+	}{{16, 1024, true}, {1024, 16, true}, {4096, 64, true}, {10000, 1, false}, {1, 4096, false}} {
+		sc := writeFile(t, "s.json", sceneText(c.nx, c.ny, ""))
+		out := t.TempDir()
+		args := []string{"render", sc, "-o", out}
+		start := time.Now()
+		_, errOut, code := runCLI(args...)
+		ents, _ := os.ReadDir(out)
+		if c.ok {
+			if code != exitOK || len(ents) != 5 {
+				t.Errorf("[%d, %d]: exit %d, %d files: %s", c.nx, c.ny, code, len(ents), errOut)
+			}
+			continue
+		}
+		line := oneErrorLine(t, args, errOut)
+		if code != exitBadInput || !strings.Contains(line, "image.pixels") || len(ents) != 0 {
+			t.Errorf("[%d, %d]: exit %d, %d files, %q", c.nx, c.ny, code, len(ents), line)
+		}
+		if d := time.Since(start); d > 5*time.Second {
+			t.Logf("[%d, %d]: refusal took %v (was the image rendered first?)", c.nx, c.ny, d)
+		}
+	}
+}
+
+// TestBlurOutOfRange: a blur of 1e12 nm once ran out of memory; now it is
+// refused before rendering, naming image.blur_nm.
+func TestBlurOutOfRange(t *testing.T) {
+	for _, b := range []string{"1e12", "1e300", "1e-200"} {
+		sc := writeFile(t, "s.json", sceneText(8, 8, `, "blur_nm": `+b))
+		args := []string{"render", sc, "-o", t.TempDir()}
+		_, errOut, code := runCLI(args...)
+		if line := oneErrorLine(t, args, errOut); code != exitBadInput || !strings.Contains(line, "image.blur_nm") {
+			t.Errorf("blur %s: exit %d, %q", b, code, line)
+		}
+	}
+}
+
+// TestInterruptedRender: a render cancelled (as by Ctrl-C) at several
+// moments exits 130 with "interrupted", or 0 if it had finished; either
+// way no temporary file is left and the directory holds the old set or
+// the new one.
+func TestInterruptedRender(t *testing.T) {
+	sc := writeFile(t, "s.json", sceneText(96, 96, ""))
+	ref := t.TempDir()
+	start := time.Now()
+	if _, errOut, code := runCLI("render", sc, "-o", ref); code != exitOK {
+		t.Fatalf("reference render: %s", errOut)
+	}
+	full := time.Since(start)
+	for _, frac := range []float64{0, 0.2, 0.5, 0.9, 1.0, 1.2} {
+		out := t.TempDir()
+		old := writeFile(t, "old.json", strings.Replace(sceneText(8, 8, ""), `"thickness_nm": 60`, `"thickness_nm": 61`, 1))
+		if _, errOut, code := runCLI("render", old, "-o", out); code != exitOK {
+			t.Fatal(errOut)
+		}
+		oldSet := snapshot(t, out)
+		ctx, cancel := context.WithCancel(context.Background())
+		timer := time.AfterFunc(time.Duration(frac*float64(full)), cancel)
+		var o, e bytes.Buffer
+		code := run(ctx, []string{"render", sc, "-o", out}, &o, &e)
+		timer.Stop()
+		cancel()
+		got := snapshot(t, out)
+		switch code {
+		case exitInterrupted:
+			if e.String() != "error: interrupted\n" && !strings.HasSuffix(e.String(), "\nerror: interrupted\n") {
+				t.Errorf("at %.0f%%: stderr %q", 100*frac, e.String())
+			}
+			if got != oldSet {
+				t.Errorf("at %.0f%%: interrupted, but the directory changed", 100*frac)
+			}
+		case exitOK:
+			if got != snapshot(t, ref) {
+				t.Errorf("at %.0f%%: finished, but the directory is not the new set", 100*frac)
+			}
+		default:
+			t.Errorf("at %.0f%%: exit %d: %s", 100*frac, code, e.String())
+		}
+	}
+}
+
+// snapshot lists a directory's entries with their contents' sizes and a
+// checksum, failing on a temporary file.
+func snapshot(t *testing.T, dir string) string {
+	t.Helper()
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []string
+	for _, e := range ents {
+		if strings.Contains(e.Name(), ".tmp-") {
+			t.Errorf("temporary file left: %s", e.Name())
+		}
+		b, _ := os.ReadFile(filepath.Join(dir, e.Name()))
+		out = append(out, fmt.Sprintf("%s:%x", e.Name(), sha256.Sum256(b)))
+	}
+	return strings.Join(out, " ")
 }
