@@ -11,9 +11,6 @@ import (
 // Models lists the values of diffraction.model.
 var Models = []string{"kinematical", "two-beam", "systematic-row"}
 
-// DefectTypes lists the values of defects[].type.
-var DefectTypes = []string{"dislocation", "dissociated", "fault", "inclusion", "loop", "cavity"}
-
 // Defaults of optional values (documented in the README's scene section).
 const (
 	// DefaultModel is used when diffraction.model is left out.
@@ -182,118 +179,6 @@ func (d *Diffraction) validate(path string) error {
 	}
 	if d.AbsorptionRatio != nil && !(*d.AbsorptionRatio >= 0 && *d.AbsorptionRatio < 1) {
 		return fieldErr(path+".absorption_ratio", "%g: must be in [0, 1) (ξ_g/ξ'_g; 0 turns absorption off)", *d.AbsorptionRatio)
-	}
-	return nil
-}
-
-// fieldsOf lists which optional fields of a defect are set.
-func (d *Defect) fieldsOf() map[string]bool {
-	return map[string]bool{
-		"b": d.B != "", "line": d.Line != nil, "at_nm": d.AtNm != nil, "plane": d.Plane != nil,
-		"partials": d.Partials != nil, "separation_nm": d.SeparationNm != nil, "sfe_mj_m2": d.SFEmJm2 != nil,
-		"shift": d.Shift != "", "radius_nm": d.RadiusNm != nil, "strain": d.Strain != nil,
-		"misfit": d.Misfit != nil, "normal": d.Normal != nil, "elasticity": d.Elasticity != "",
-		"edge": d.Edge != nil, "bounds_nm": d.BoundsNm != nil,
-	}
-}
-
-// defectFields lists the fields of each defect type: required, then
-// optional.
-var defectFields = map[string][2][]string{
-	"dislocation": {{"b", "line", "at_nm"}, {"elasticity"}},
-	"dissociated": {{"b", "line", "at_nm", "plane", "partials"}, {"separation_nm", "sfe_mj_m2", "elasticity"}},
-	"fault":       {{"plane", "shift", "at_nm"}, {"edge", "bounds_nm"}},
-	"inclusion":   {{"at_nm", "radius_nm"}, {"strain", "misfit"}},
-	"loop":        {{"at_nm", "normal", "b", "radius_nm"}, nil},
-	"cavity":      {{"at_nm", "radius_nm"}, nil},
-}
-
-func (d *Defect) validate(path string) error {
-	spec, ok := defectFields[d.Type]
-	if !ok {
-		if d.Type == "" {
-			return fieldErr(path+".type", "missing; use one of %s", strings.Join(DefectTypes, ", "))
-		}
-		return fieldErr(path+".type", "%q is not a defect type; use one of %s", d.Type, strings.Join(DefectTypes, ", "))
-	}
-	set := d.fieldsOf()
-	allowed := map[string]bool{}
-	for _, f := range spec[0] {
-		allowed[f] = true
-		if !set[f] {
-			return fieldErr(path+"."+f, "missing (a %s needs %s)", d.Type, strings.Join(spec[0], ", "))
-		}
-	}
-	for _, f := range spec[1] {
-		allowed[f] = true
-	}
-	for _, f := range []string{"b", "line", "at_nm", "plane", "partials", "separation_nm", "sfe_mj_m2", "shift", "radius_nm", "strain", "misfit", "normal", "elasticity", "edge", "bounds_nm"} {
-		if set[f] && !allowed[f] {
-			return fieldErr(path+"."+f, "does not apply to a %s", d.Type)
-		}
-	}
-	if d.AtNm != nil && (len(d.AtNm) != 3 || !allFinite(d.AtNm)) {
-		return fieldErr(path+".at_nm", "%v: needs three finite coordinates x, y, z in nm", d.AtNm)
-	}
-	for _, v := range d.AtNm {
-		if math.Abs(v) > MaxLengthNm {
-			return fieldErr(path+".at_nm", "%v: more than %g nm (1 mm) from the image centre", d.AtNm, MaxLengthNm)
-		}
-	}
-	for _, f := range []struct {
-		name string
-		v    []float64
-	}{{"line", d.Line}, {"plane", d.Plane}, {"normal", d.Normal}, {"edge", d.Edge}} {
-		if f.v == nil {
-			continue
-		}
-		if err := indices(path+"."+f.name, f.v); err != nil {
-			return err
-		}
-		if allZero(f.v) {
-			return fieldErr(path+"."+f.name, "is the zero vector")
-		}
-	}
-	if d.RadiusNm != nil && !(*d.RadiusNm > 0 && *d.RadiusNm <= MaxLengthNm) {
-		return fieldErr(path+".radius_nm", "%g nm: must be positive and at most %g nm", *d.RadiusNm, MaxLengthNm)
-	}
-	switch d.Type {
-	case "inclusion":
-		if (d.Strain == nil) == (d.Misfit == nil) {
-			return fieldErr(path, "an inclusion needs exactly one of strain or misfit")
-		}
-		for name, v := range map[string]*float64{"strain": d.Strain, "misfit": d.Misfit} {
-			if v != nil && !(math.Abs(*v) < 0.5) {
-				return fieldErr(path+"."+name, "%g: must be a small fraction (|value| < 0.5)", *v)
-			}
-		}
-	case "fault":
-		if (d.Edge == nil) != (d.BoundsNm == nil) {
-			return fieldErr(path, "a bounded fault needs both edge and bounds_nm")
-		}
-		if d.BoundsNm != nil {
-			if len(d.BoundsNm) != 2 || math.IsNaN(d.BoundsNm[0]) || math.IsNaN(d.BoundsNm[1]) || !(d.BoundsNm[0] < d.BoundsNm[1]) {
-				return fieldErr(path+".bounds_nm", "%v: needs [from, to] in nm with from < to", d.BoundsNm)
-			}
-		}
-	case "dissociated":
-		if len(d.Partials) != 2 {
-			return fieldErr(path+".partials", "needs two Burgers vectors, found %d", len(d.Partials))
-		}
-		if (d.SeparationNm == nil) == (d.SFEmJm2 == nil) {
-			return fieldErr(path, "a dissociated dislocation needs exactly one of separation_nm or sfe_mj_m2")
-		}
-		if d.SeparationNm != nil && !(*d.SeparationNm > 0) {
-			return fieldErr(path+".separation_nm", "%g nm: must be positive", *d.SeparationNm)
-		}
-		if d.SFEmJm2 != nil && !(*d.SFEmJm2 > 0) {
-			return fieldErr(path+".sfe_mj_m2", "%g mJ/m²: must be positive", *d.SFEmJm2)
-		}
-	}
-	switch d.Elasticity {
-	case "", "isotropic", "anisotropic":
-	default:
-		return fieldErr(path+".elasticity", "%q: use isotropic or anisotropic", d.Elasticity)
 	}
 	return nil
 }

@@ -1,6 +1,10 @@
 package ui
 
 import (
+	"errors"
+	"sort"
+	"strings"
+
 	"fyne.io/fyne/v2/widget"
 
 	"faultline/scene"
@@ -15,6 +19,9 @@ type binder struct {
 	board   *errorBoard
 	syncing int
 	readers []func(sc *scene.Scene)
+	// pending holds, by the path of their field, values the scene refused,
+	// tried again with the next change.
+	pending map[string][]scene.Edit
 }
 
 func newBinder(c *Controller, board *errorBoard) *binder {
@@ -40,6 +47,10 @@ func (b *binder) reader(f func(sc *scene.Scene)) {
 }
 
 func (b *binder) readAll() {
+	for p := range b.pending {
+		delete(b.board.local, p)
+	}
+	b.pending = nil
 	b.quiet(func() {
 		for _, f := range b.readers {
 			f(b.c.Scene())
@@ -47,16 +58,72 @@ func (b *binder) readAll() {
 	})
 }
 
-// edit applies change to the scene unless fields are being filled. The
-// error of the build is shown by the board (through the OnBuilt listener
-// of the window), so it is not returned.
-func (b *binder) edit(path string, change func(sc *scene.Scene)) {
+// set stores value at the scene field path through scene.Set (via the
+// controller), unless fields are being filled. A value the scene refuses
+// leaves the scene as it was: its error is shown under the field, and the
+// value is kept and tried again with the next change, so fields that are
+// valid only together (pixels and field of view) can be changed one at a
+// time.
+func (b *binder) set(path string, value any) {
+	b.setAll(path, scene.Edit{Path: path, Value: value})
+}
+
+// setAll is set for several fields changed by one control at path.
+func (b *binder) setAll(path string, edits ...scene.Edit) {
 	if b.syncing > 0 {
 		return
 	}
 	delete(b.board.local, path)
-	b.c.Edit(change)
+	delete(b.pending, path)
+	var all []scene.Edit
+	for _, p := range b.pendingOrder() {
+		all = append(all, b.pending[p]...)
+	}
+	err := errors.New("")
+	if len(all) > 0 {
+		err = b.c.Set(append(all, edits...)...)
+		if err == nil {
+			for p := range b.pending {
+				delete(b.board.local, p)
+			}
+			b.pending = nil
+		}
+	}
+	if err != nil {
+		if err = b.c.Set(edits...); err != nil {
+			if b.pending == nil {
+				b.pending = map[string][]scene.Edit{}
+			}
+			b.pending[path] = edits
+			b.board.local[path] = fieldMessage(path, err)
+		}
+	}
 	b.board.refresh()
+}
+
+// pendingOrder lists the paths of refused values in a fixed order.
+func (b *binder) pendingOrder() []string {
+	paths := make([]string, 0, len(b.pending))
+	for p := range b.pending {
+		paths = append(paths, p)
+	}
+	sort.Strings(paths)
+	return paths
+}
+
+// fieldMessage is err as shown under the field at path: without the path
+// when it is about that field.
+func fieldMessage(path string, err error) string {
+	var fe *scene.FieldError
+	if errors.As(err, &fe) {
+		if fe.Path == path {
+			return fe.Msg
+		}
+		if pathWithin(fe.Path, path) {
+			return strings.TrimPrefix(fe.Path, path+".") + ": " + fe.Msg
+		}
+	}
+	return err.Error()
 }
 
 // typed handles text typed into the field at path: a parse error is shown
@@ -73,13 +140,21 @@ func typed[T any](b *binder, path, text string, parse func(string) (T, error), u
 	use(v)
 }
 
-// numberEntry is an entry for a number at path: get writes the scene's
-// value as text, set stores a parsed value.
-func (b *binder) numberEntry(path string, get func(sc *scene.Scene) string, set func(sc *scene.Scene, v float64)) *widget.Entry {
+// numberEntry is an entry for the number at path; get writes the scene's
+// value as text.
+func (b *binder) numberEntry(path string, get func(sc *scene.Scene) string) *widget.Entry {
+	return b.numberEntryTo(path, get, func(_ *scene.Scene, v float64) []scene.Edit {
+		return []scene.Edit{{Path: path, Value: v}}
+	})
+}
+
+// numberEntryTo is numberEntry whose value becomes the edits of to (given
+// the scene as it is).
+func (b *binder) numberEntryTo(path string, get func(sc *scene.Scene) string, to func(sc *scene.Scene, v float64) []scene.Edit) *widget.Entry {
 	e := widget.NewEntry()
 	e.OnChanged = func(text string) {
 		typed(b, path, text, parseNumber, func(v float64) {
-			b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+			b.setAll(path, to(b.c.Scene(), v)...)
 		})
 	}
 	b.reader(func(sc *scene.Scene) { e.SetText(get(sc)) })
@@ -87,8 +162,8 @@ func (b *binder) numberEntry(path string, get func(sc *scene.Scene) string, set 
 }
 
 // optionalNumberEntry is numberEntry for a value that may be left out: an
-// empty entry stores nil.
-func (b *binder) optionalNumberEntry(path, placeholder string, get func(sc *scene.Scene) *float64, set func(sc *scene.Scene, v *float64)) *widget.Entry {
+// empty entry clears it.
+func (b *binder) optionalNumberEntry(path, placeholder string, get func(sc *scene.Scene) *float64) *widget.Entry {
 	e := widget.NewEntry()
 	e.SetPlaceHolder(placeholder)
 	e.OnChanged = func(text string) {
@@ -96,12 +171,10 @@ func (b *binder) optionalNumberEntry(path, placeholder string, get func(sc *scen
 			return
 		}
 		if isBlank(text) {
-			b.edit(path, func(sc *scene.Scene) { set(sc, nil) })
+			b.set(path, nil)
 			return
 		}
-		typed(b, path, text, parseNumber, func(v float64) {
-			b.edit(path, func(sc *scene.Scene) { set(sc, &v) })
-		})
+		typed(b, path, text, parseNumber, func(v float64) { b.set(path, v) })
 	}
 	b.reader(func(sc *scene.Scene) {
 		if p := get(sc); p != nil {
@@ -114,31 +187,27 @@ func (b *binder) optionalNumberEntry(path, placeholder string, get func(sc *scen
 }
 
 // indicesEntry is an entry for indices at path ("2 0 0"); optional lets it
-// be empty (stored as nil).
-func (b *binder) indicesEntry(path string, optional bool, get func(sc *scene.Scene) []float64, set func(sc *scene.Scene, v []float64)) *widget.Entry {
+// be empty (the field cleared).
+func (b *binder) indicesEntry(path string, optional bool, get func(sc *scene.Scene) []float64) *widget.Entry {
 	e := widget.NewEntry()
 	e.OnChanged = func(text string) {
 		if b.syncing > 0 {
 			return
 		}
 		if optional && isBlank(text) {
-			b.edit(path, func(sc *scene.Scene) { set(sc, nil) })
+			b.set(path, nil)
 			return
 		}
-		typed(b, path, text, parseIndexList, func(v []float64) {
-			b.edit(path, func(sc *scene.Scene) { set(sc, v) })
-		})
+		typed(b, path, text, scene.ParseIndexText, func(v []float64) { b.set(path, v) })
 	}
 	b.reader(func(sc *scene.Scene) { e.SetText(formatIndices(get(sc))) })
 	return e
 }
 
 // textEntry is an entry for text stored as typed (a Burgers vector).
-func (b *binder) textEntry(path string, get func(sc *scene.Scene) string, set func(sc *scene.Scene, v string)) *widget.Entry {
+func (b *binder) textEntry(path string, get func(sc *scene.Scene) string) *widget.Entry {
 	e := widget.NewEntry()
-	e.OnChanged = func(text string) {
-		b.edit(path, func(sc *scene.Scene) { set(sc, text) })
-	}
+	e.OnChanged = func(text string) { b.set(path, text) }
 	b.reader(func(sc *scene.Scene) { e.SetText(get(sc)) })
 	return e
 }

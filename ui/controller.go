@@ -72,6 +72,7 @@ type Controller struct {
 	path      string
 	savedJSON []byte
 
+	builder  scene.Builder // keeps the stages a change leaves alone
 	setup    *scene.Setup
 	buildErr error
 
@@ -257,6 +258,27 @@ func (c *Controller) Edit(change func(sc *scene.Scene)) error {
 	return c.rebuild()
 }
 
+// Set applies the edits to a copy of the scene with scene.SetAll and, if
+// the scene takes them, makes the copy the scene and builds it (see Edit).
+// If not, the scene stays as it was, the error is returned and sent to the
+// OnBuilt listeners, and the render in flight is stopped: what is shown no
+// longer answers what was asked.
+func (c *Controller) Set(edits ...scene.Edit) error {
+	next := cloneScene(c.sc)
+	if err := scene.SetAll(next, edits...); err != nil {
+		c.gen++
+		c.stop()
+		c.buildErr = err
+		for _, f := range c.onBuilt {
+			f(nil, err)
+		}
+		return err
+	}
+	c.sc = next
+	c.fireState()
+	return c.rebuild()
+}
+
 // Rebuild builds the scene again and renders it (after something outside
 // the scene changed, such as a CIF file on disk).
 func (c *Controller) Rebuild() error { return c.rebuild() }
@@ -264,7 +286,7 @@ func (c *Controller) Rebuild() error { return c.rebuild() }
 func (c *Controller) rebuild() error {
 	changed := time.Now()
 	c.gen++
-	st, err := scene.Build(c.sc, c.Dir())
+	st, err := c.builder.Build(c.sc, c.Dir())
 	if err != nil {
 		// A render in flight would show a scene that is no longer the one
 		// edited: stop it.

@@ -4,9 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
-	"sync"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
@@ -16,72 +16,11 @@ import (
 	"faultline/scene"
 )
 
-// defectTemplate returns a defect of type kind with every field it needs,
-// at mid-depth of a foil t nm thick. The numbers suit a cubic (fcc) cell;
-// they are a start to edit, not a recommendation.
-func defectTemplate(kind string, tNm float64) scene.Defect {
-	at := []float64{0, 0, tNm / 2}
-	d := scene.Defect{Type: kind, AtNm: at}
-	switch kind {
-	case "dislocation":
-		d.B, d.Line = "1/2[1 1 0]", []float64{1, -1, 2}
-	case "dissociated":
-		// A 60° dislocation on (1 -1 1) splitting into two Shockley
-		// partials: 1/2[1 1 0] = 1/6[2 1 -1] + 1/6[1 2 1].
-		d.B, d.Line, d.Plane = "1/2[1 1 0]", []float64{0, 1, 1}, []float64{1, -1, 1}
-		d.Partials = []string{"1/6[2 1 -1]", "1/6[1 2 1]"}
-		d.SeparationNm = ptr(8.0)
-	case "fault":
-		d.Plane, d.Shift = []float64{1, 1, 1}, "1/3[1 1 1]"
-	case "inclusion":
-		d.RadiusNm, d.Misfit = ptr(8.0), ptr(0.01)
-	case "loop":
-		d.Normal, d.B, d.RadiusNm = []float64{1, 1, 1}, "1/3[1 1 1]", ptr(15.0)
-	case "cavity":
-		d.RadiusNm = ptr(10.0)
-	}
-	return d
-}
-
-// retype changes a defect's type, keeping its position and filling the
-// other fields from the template.
-func retype(d scene.Defect, kind string, tNm float64) scene.Defect {
-	n := defectTemplate(kind, tNm)
-	if len(d.AtNm) == 3 {
-		n.AtNm = append([]float64(nil), d.AtNm...)
-	}
-	return n
-}
-
-// availableTypes tells, for each defect type, whether the library builds
-// it: a small scene holding one defect of the type is built, and an error
-// about the defect's type means it is not available yet.
-var availableTypes = sync.OnceValue(func() map[string]bool {
-	out := map[string]bool{}
-	for _, kind := range scene.DefectTypes {
-		sc := &scene.Scene{
-			Version:     scene.Version,
-			Crystal:     scene.Crystal{Material: "Ni"},
-			Microscope:  scene.Microscope{VoltageKV: 200},
-			Diffraction: scene.Diffraction{G: []float64{2, 0, 0}, Beam: []float64{0, 1, 1}, SPerNm: ptr(0.0)},
-			Foil:        scene.Foil{ThicknessNm: 50},
-			Defects:     []scene.Defect{defectTemplate(kind, 50)},
-			Image:       scene.Image{WidthNm: 40, HeightNm: 40, Pixels: []int{4, 4}},
-		}
-		_, err := scene.Build(sc, ".")
-		var fe *scene.FieldError
-		out[kind] = !(errors.As(err, &fe) && fe.Path == "defects[0].type")
-	}
-	return out
-})
-
-const notYet = " (not yet available)"
-
-func typeOption(kind string) string {
-	if availableTypes()[kind] {
-		return kind
-	}
-	return kind + notYet
+// template returns a new defect of type kind from its description, at
+// mid-depth of a foil t nm thick.
+func template(kind string, tNm float64) scene.Defect {
+	spec, _ := scene.DefectSpecOf(kind)
+	return spec.Template(tNm)
 }
 
 // defectsPanel is the editor of the scene's defects.
@@ -130,8 +69,8 @@ func defectsPanelObject(ws *Workspace) fyne.CanvasObject {
 				return
 			}
 			d := sc.Defects[id]
-			label.SetText(defectSummary(id, d))
-			if id == dp.errIdx || !availableTypes()[d.Type] {
+			label.SetText(fmt.Sprintf("%d  %s", id+1, d.Summary()))
+			if id == dp.errIdx {
 				icon.Show()
 			} else {
 				icon.Hide()
@@ -143,16 +82,9 @@ func defectsPanelObject(ws *Workspace) fyne.CanvasObject {
 	}
 	dp.List.OnUnselected = func(widget.ListItemID) {}
 
-	opts := make([]string, len(scene.DefectTypes))
-	for i, k := range scene.DefectTypes {
-		opts[i] = typeOption(k)
-	}
-	dp.AddType = widget.NewSelect(opts, nil)
-	dp.AddType.SetSelected(opts[0])
-	dp.Add = widget.NewButtonWithIcon("Add", theme.ContentAddIcon(), func() {
-		kind := strings.TrimSuffix(dp.AddType.Selected, notYet)
-		dp.add(kind)
-	})
+	dp.AddType = widget.NewSelect(scene.DefectTypes, nil)
+	dp.AddType.SetSelected(scene.DefectTypes[0])
+	dp.Add = widget.NewButtonWithIcon("Add", theme.ContentAddIcon(), func() { dp.add(dp.AddType.Selected) })
 	dp.Duplicate = widget.NewButtonWithIcon("Duplicate", theme.ContentCopyIcon(), func() { dp.duplicate() })
 	dp.Remove = widget.NewButtonWithIcon("Remove", theme.ContentRemoveIcon(), func() { dp.remove() })
 	dp.Form = container.NewVBox()
@@ -210,30 +142,6 @@ func (dp *defectsPanel) showDerived(st *scene.Setup) {
 	dp.Derived.SetText(strings.Join(lines, "\n"))
 }
 
-// defectSummary is the list line of defect i.
-func defectSummary(i int, d scene.Defect) string {
-	s := fmt.Sprintf("%d  %s", i+1, d.Type)
-	switch d.Type {
-	case "dislocation", "dissociated":
-		s += fmt.Sprintf("  b = %s  u = [%s]", d.B, formatIndices(d.Line))
-	case "fault":
-		s += fmt.Sprintf("  (%s)  R = %s", formatIndices(d.Plane), d.Shift)
-	case "loop":
-		s += fmt.Sprintf("  b = %s", d.B)
-		if d.RadiusNm != nil {
-			s += fmt.Sprintf("  r = %g nm", *d.RadiusNm)
-		}
-	case "inclusion", "cavity":
-		if d.RadiusNm != nil {
-			s += fmt.Sprintf("  r = %g nm", *d.RadiusNm)
-		}
-	}
-	if !availableTypes()[d.Type] {
-		s += notYet
-	}
-	return s
-}
-
 func (dp *defectsPanel) updateButtons() {
 	n := len(dp.ws.ctrl.Scene().Defects)
 	if dp.selected >= 0 && dp.selected < n {
@@ -253,9 +161,8 @@ func (dp *defectsPanel) thickness() float64 {
 }
 
 func (dp *defectsPanel) add(kind string) {
-	d := defectTemplate(kind, dp.thickness())
-	dp.ws.ctrl.Edit(func(sc *scene.Scene) { sc.Defects = append(sc.Defects, d) })
-	dp.ws.board.refresh()
+	d := template(kind, dp.thickness())
+	dp.setDefects(append(slices.Clone(dp.ws.ctrl.Scene().Defects), d))
 	n := len(dp.ws.ctrl.Scene().Defects)
 	dp.List.Refresh()
 	dp.List.Select(n - 1)
@@ -267,15 +174,12 @@ func (dp *defectsPanel) duplicate() {
 	if i < 0 || i >= len(sc.Defects) {
 		return
 	}
-	dp.ws.ctrl.Edit(func(sc *scene.Scene) {
-		d := cloneDefect(sc.Defects[i])
-		// Shift the copy so it does not sit on the original.
-		if len(d.AtNm) == 3 {
-			d.AtNm[0] += 20
-		}
-		sc.Defects = append(sc.Defects[:i+1], append([]scene.Defect{d}, sc.Defects[i+1:]...)...)
-	})
-	dp.ws.board.refresh()
+	d := cloneDefect(sc.Defects[i])
+	// Shift the copy so it does not sit on the original.
+	if len(d.AtNm) == 3 {
+		d.AtNm[0] += 20
+	}
+	dp.setDefects(slices.Insert(slices.Clone(sc.Defects), i+1, d))
 	dp.List.Refresh()
 	dp.List.Select(i + 1)
 }
@@ -286,7 +190,7 @@ func (dp *defectsPanel) remove() {
 	if i < 0 || i >= len(sc.Defects) {
 		return
 	}
-	dp.ws.ctrl.Edit(func(sc *scene.Scene) { sc.Defects = append(sc.Defects[:i], sc.Defects[i+1:]...) })
+	dp.ws.ctrl.Set(scene.Edit{Path: fmt.Sprintf("defects[%d]", i), Value: nil})
 	dp.ws.board.refresh()
 	n := len(dp.ws.ctrl.Scene().Defects)
 	dp.List.UnselectAll()
@@ -297,6 +201,12 @@ func (dp *defectsPanel) remove() {
 	} else {
 		dp.buildForm()
 	}
+}
+
+// setDefects makes list the scene's defects.
+func (dp *defectsPanel) setDefects(list []scene.Defect) {
+	dp.ws.ctrl.Set(scene.Edit{Path: "defects", Value: list})
+	dp.ws.board.refresh()
 }
 
 func cloneDefect(d scene.Defect) scene.Defect {
@@ -336,210 +246,223 @@ func (dp *defectsPanel) buildForm() {
 		return &scene.Defect{}
 	}
 
-	typeSel := widget.NewSelect(nil, nil)
-	opts := make([]string, len(scene.DefectTypes))
-	for k, kind := range scene.DefectTypes {
-		opts[k] = typeOption(kind)
-	}
-	typeSel.Options = opts
-	typeSel.SetSelected(typeOption(d.Type))
-	typeSel.OnChanged = func(opt string) {
-		kind := strings.TrimSuffix(opt, notYet)
+	typeSel := widget.NewSelect(scene.DefectTypes, nil)
+	typeSel.SetSelected(d.Type)
+	typeSel.OnChanged = func(kind string) {
 		if kind == def(ws.ctrl.Scene()).Type {
 			return
 		}
-		t := dp.thickness()
-		ws.ctrl.Edit(func(sc *scene.Scene) { *def(sc) = retype(*def(sc), kind, t) })
+		// A new type keeps the position and takes the rest from its
+		// template.
+		n := template(kind, dp.thickness())
+		if len(d.AtNm) == 3 {
+			n.AtNm = append([]float64(nil), d.AtNm...)
+		}
+		ws.ctrl.Set(scene.Edit{Path: path, Value: n})
 		ws.board.refresh()
 		dp.List.Refresh()
 		dp.buildForm()
 	}
-	rows := []row{}
-	addRow := func(label, field string, obj fyne.CanvasObject) {
-		rows = append(rows, formRow(label, obj, ws.board.label(path+"."+field)))
-	}
-	addRow("Type", "type", typeSel)
-	if !availableTypes()[d.Type] {
-		note := widget.NewLabel("The simulator cannot model this defect type yet. It is kept in the scene and saved with it, but while it is in the scene nothing is rendered.")
-		note.Wrapping = fyne.TextWrapWord
-		note.Importance = widget.WarningImportance
-		rows = append(rows, formRow("", note))
-	}
-
-	burgers := func(label, field string, get func(d *scene.Defect) *string) {
-		e := b.textEntry(path+"."+field,
-			func(sc *scene.Scene) string { return *get(def(sc)) },
-			func(sc *scene.Scene, v string) { *get(def(sc)) = v })
-		e.SetPlaceHolder("e.g. 1/2[1 -1 0]")
-		addRow(label, field, e)
-	}
-	indices := func(label, field string, get func(d *scene.Defect) *[]float64) {
-		e := b.indicesEntry(path+"."+field, false,
-			func(sc *scene.Scene) []float64 { return *get(def(sc)) },
-			func(sc *scene.Scene, v []float64) { *get(def(sc)) = v })
-		addRow(label, field, e)
-	}
-	number := func(label, field, unitText string, get func(d *scene.Defect) **float64) {
-		e := b.numberEntry(path+"."+field,
-			func(sc *scene.Scene) string {
-				if p := *get(def(sc)); p != nil {
-					return formatNumber(*p)
+	rows := []row{formRow("Type", typeSel, ws.board.label(path+".type"))}
+	spec, ok := scene.DefectSpecOf(d.Type)
+	if ok {
+		done := map[string]bool{}
+		for i := range spec.Fields {
+			f := &spec.Fields[i]
+			if done[f.Name] {
+				continue
+			}
+			if g := spec.GroupOf(f.Name); g != nil && g.Rule == scene.OneOf {
+				for _, name := range g.Fields {
+					done[name] = true
 				}
-				return ""
-			},
-			func(sc *scene.Scene, v float64) { *get(def(sc)) = ptr(v) })
-		addRow(label, field, unit(e, unitText))
-	}
-	position := func() {
-		entries := make([]fyne.CanvasObject, 3)
-		for k, name := range []string{"x", "y", "z"} {
-			k := k
-			e := b.numberEntry(path+".at_nm",
-				func(sc *scene.Scene) string {
-					if a := def(sc).AtNm; len(a) == 3 {
-						return formatNumber(a[k])
-					}
-					return ""
-				},
-				func(sc *scene.Scene, v float64) {
-					d := def(sc)
-					if len(d.AtNm) != 3 {
-						d.AtNm = []float64{0, 0, 0}
-					}
-					d.AtNm[k] = v
-				})
-			entries[k] = container.NewBorder(nil, nil, widget.NewLabel(name), nil, e)
-		}
-		addRow("Position", "at_nm", container.NewVBox(container.NewGridWithColumns(3, entries...),
-			widget.NewLabelWithStyle("nm; x along g, y down the image, z depth below the entrance surface", fyne.TextAlignLeading, fyne.TextStyle{Italic: true})))
-	}
-	// oneOf edits a pair of mutually exclusive numbers (separation or
-	// stacking-fault energy, strain or misfit) with a choice between them.
-	oneOf := func(label string, names [2]string, fields [2]string, units [2]string, get [2]func(d *scene.Defect) **float64, start [2]float64) {
-		choice := widget.NewSelect([]string{names[0], names[1]}, nil)
-		e := widget.NewEntry()
-		cur := func() int {
-			if *get[1](&d) != nil {
-				return 1
+				rows = append(rows, dp.oneOfRow(b, path, spec, g))
+				continue
 			}
-			return 0
+			rows = append(rows, dp.fieldRow(b, path, f))
 		}
-		k := cur()
-		choice.SetSelected(names[k])
-		if p := *get[k](&d); p != nil {
-			e.SetText(formatNumber(*p))
-		}
-		unitLbl := widget.NewLabel(units[k])
-		errl := container.NewVBox(ws.board.label(path+"."+fields[0]), ws.board.label(path+"."+fields[1]))
-		choice.OnChanged = func(s string) {
-			j := indexOf(names[:], s)
-			if j < 0 || j == k {
-				return
-			}
-			k = j
-			unitLbl.SetText(units[j])
-			v := start[j]
-			ws.ctrl.Edit(func(sc *scene.Scene) {
-				dd := def(sc)
-				*get[1-j](dd) = nil
-				*get[j](dd) = ptr(v)
-			})
-			ws.board.refresh()
-			e.SetText(formatNumber(v))
-		}
-		e.OnChanged = func(text string) {
-			j := k
-			typed(b, path+"."+fields[j], text, parseNumber, func(v float64) {
-				b.edit(path+"."+fields[j], func(sc *scene.Scene) {
-					dd := def(sc)
-					*get[1-j](dd) = nil
-					*get[j](dd) = ptr(v)
-				})
-			})
-		}
-		rows = append(rows, formRow(label, container.NewBorder(nil, nil, choice, unitLbl, e), errl))
-	}
-	elasticity := func() {
-		opts := []string{"default", "isotropic", "anisotropic"}
-		sel := widget.NewSelect(opts, nil)
-		cur := d.Elasticity
-		if cur == "" {
-			cur = "default"
-		}
-		sel.SetSelected(cur)
-		sel.OnChanged = func(s string) {
-			v := s
-			if v == "default" {
-				v = ""
-			}
-			b.edit(path+".elasticity", func(sc *scene.Scene) { def(sc).Elasticity = v })
-		}
-		addRow("Elasticity", "elasticity", container.NewVBox(sel,
-			widget.NewLabelWithStyle("default: anisotropic (Stroh) when the crystal has all its elastic constants", fyne.TextAlignLeading, fyne.TextStyle{Italic: true})))
-	}
-
-	switch d.Type {
-	case "dislocation":
-		burgers("Burgers vector b", "b", func(d *scene.Defect) *string { return &d.B })
-		indices("Line u [uvw]", "line", func(d *scene.Defect) *[]float64 { return &d.Line })
-		position()
-		elasticity()
-	case "dissociated":
-		burgers("Total b", "b", func(d *scene.Defect) *string { return &d.B })
-		indices("Line u [uvw]", "line", func(d *scene.Defect) *[]float64 { return &d.Line })
-		indices("Glide plane (hkl)", "plane", func(d *scene.Defect) *[]float64 { return &d.Plane })
-		for k := 0; k < 2; k++ {
-			k := k
-			e := b.textEntry(path+".partials",
-				func(sc *scene.Scene) string {
-					if p := def(sc).Partials; len(p) > k {
-						return p[k]
-					}
-					return ""
-				},
-				func(sc *scene.Scene, v string) {
-					dd := def(sc)
-					for len(dd.Partials) < 2 {
-						dd.Partials = append(dd.Partials, "")
-					}
-					dd.Partials[k] = v
-				})
-			e.SetPlaceHolder("e.g. 1/6[1 2 1]")
-			if k == 0 {
-				addRow("Partial b₁", "partials", e)
-			} else {
-				rows = append(rows, formRow("Partial b₂", e))
-			}
-		}
-		oneOf("Width from", [2]string{"separation", "fault energy"}, [2]string{"separation_nm", "sfe_mj_m2"}, [2]string{"nm", "mJ/m²"},
-			[2]func(d *scene.Defect) **float64{
-				func(d *scene.Defect) **float64 { return &d.SeparationNm },
-				func(d *scene.Defect) **float64 { return &d.SFEmJm2 }},
-			[2]float64{8, 100})
-		position()
-		elasticity()
-	case "fault":
-		indices("Fault plane (hkl)", "plane", func(d *scene.Defect) *[]float64 { return &d.Plane })
-		burgers("Shift R", "shift", func(d *scene.Defect) *string { return &d.Shift })
-		position()
-	case "inclusion":
-		number("Radius", "radius_nm", "nm", func(d *scene.Defect) **float64 { return &d.RadiusNm })
-		oneOf("Strength", [2]string{"misfit δ", "strain ε"}, [2]string{"misfit", "strain"}, [2]string{"", ""},
-			[2]func(d *scene.Defect) **float64{
-				func(d *scene.Defect) **float64 { return &d.Misfit },
-				func(d *scene.Defect) **float64 { return &d.Strain }},
-			[2]float64{0.01, 0.005})
-		position()
-	case "loop":
-		indices("Loop normal [uvw]", "normal", func(d *scene.Defect) *[]float64 { return &d.Normal })
-		burgers("Burgers vector b", "b", func(d *scene.Defect) *string { return &d.B })
-		number("Radius", "radius_nm", "nm", func(d *scene.Defect) **float64 { return &d.RadiusNm })
-		position()
-	case "cavity":
-		number("Radius", "radius_nm", "nm", func(d *scene.Defect) **float64 { return &d.RadiusNm })
-		position()
 	}
 	dp.Form.Add(form(rows...))
 	ws.board.refresh()
 	dp.Form.Refresh()
+}
+
+// fieldRow is the form row of field f of the defect at path, made from
+// its description.
+func (dp *defectsPanel) fieldRow(b *binder, path string, f *scene.FieldSpec) row {
+	ws := dp.ws
+	fpath := path + "." + f.Name
+	i := dp.formFor
+	cur := func(sc *scene.Scene) *scene.Defect {
+		if i < len(sc.Defects) {
+			return &sc.Defects[i]
+		}
+		return &scene.Defect{}
+	}
+	value := func(sc *scene.Scene) any {
+		v, _ := defectValue(cur(sc), f.Name)
+		return v
+	}
+	var obj fyne.CanvasObject
+	switch f.Kind {
+	case scene.Burgers:
+		e := b.textEntry(fpath, func(sc *scene.Scene) string { s, _ := value(sc).(string); return s })
+		e.SetPlaceHolder(f.Help)
+		obj = e
+	case scene.BurgersList:
+		entries := make([]fyne.CanvasObject, f.Count)
+		for k := range f.Count {
+			e := b.textEntry(fmt.Sprintf("%s[%d]", fpath, k), func(sc *scene.Scene) string {
+				if l, _ := value(sc).([]string); len(l) > k {
+					return l[k]
+				}
+				return ""
+			})
+			e.SetPlaceHolder(f.Help)
+			entries[k] = e
+		}
+		obj = container.NewGridWithColumns(f.Count, entries...)
+	case scene.Direction, scene.Plane:
+		e := b.indicesEntry(fpath, !f.Required, func(sc *scene.Scene) []float64 { v, _ := value(sc).([]float64); return v })
+		obj = e
+	case scene.Number:
+		get := func(sc *scene.Scene) *float64 { v, _ := value(sc).(*float64); return v }
+		var e *widget.Entry
+		if f.Required {
+			e = b.numberEntry(fpath, func(sc *scene.Scene) string {
+				if p := get(sc); p != nil {
+					return formatNumber(*p)
+				}
+				return ""
+			})
+		} else {
+			e = b.optionalNumberEntry(fpath, "", get)
+		}
+		obj = unit(e, f.Unit())
+	case scene.Position:
+		entries := make([]fyne.CanvasObject, 3)
+		for k, name := range []string{"x", "y", "z"} {
+			e := b.numberEntry(fmt.Sprintf("%s[%d]", fpath, k), func(sc *scene.Scene) string {
+				if a, _ := value(sc).([]float64); len(a) == 3 {
+					return formatNumber(a[k])
+				}
+				return ""
+			})
+			entries[k] = container.NewBorder(nil, nil, widget.NewLabel(name), nil, e)
+		}
+		obj = container.NewGridWithColumns(3, entries...)
+	case scene.Interval:
+		e := widget.NewEntry()
+		e.SetPlaceHolder("from to, e.g. -40 40")
+		e.OnChanged = func(text string) {
+			if b.syncing > 0 {
+				return
+			}
+			if isBlank(text) {
+				b.set(fpath, nil)
+				return
+			}
+			typed(b, fpath, text, parseNumberPair, func(v []float64) { b.set(fpath, v) })
+		}
+		b.reader(func(sc *scene.Scene) { v, _ := value(sc).([]float64); e.SetText(formatIndices(v)) })
+		obj = unit(e, f.Unit())
+	case scene.Choice:
+		opts := append([]string{"default"}, f.Options...)
+		sel := widget.NewSelect(opts, nil)
+		if v, _ := value(ws.ctrl.Scene()).(string); v != "" {
+			sel.SetSelected(v)
+		} else {
+			sel.SetSelected("default")
+		}
+		sel.OnChanged = func(s string) {
+			var v any = s
+			if s == "default" {
+				v = nil
+			}
+			b.set(fpath, v)
+		}
+		obj = sel
+	}
+	if f.Help != "" && f.Kind != scene.Burgers && f.Kind != scene.BurgersList {
+		obj = container.NewVBox(obj, widget.NewLabelWithStyle(f.Help, fyne.TextAlignLeading, fyne.TextStyle{Italic: true}))
+	}
+	return formRow(f.Label, obj, ws.board.label(fpath))
+}
+
+// oneOfRow edits a group of mutually exclusive numbers (separation or
+// fault energy, misfit or strain) with a choice between them; switching
+// starts the other at its default.
+func (dp *defectsPanel) oneOfRow(b *binder, path string, spec *scene.DefectSpec, g *scene.GroupSpec) row {
+	ws := dp.ws
+	d := ws.ctrl.Scene().Defects[dp.formFor]
+	fields := make([]*scene.FieldSpec, len(g.Fields))
+	k := 0
+	for j, name := range g.Fields {
+		fields[j] = spec.Field(name)
+		if _, set := defectValue(&d, name); set {
+			k = j
+		}
+	}
+	choice := widget.NewSelect(g.Names, nil)
+	choice.SetSelected(g.Names[k])
+	e := widget.NewEntry()
+	if v, ok := defectValue(&d, g.Fields[k]); ok {
+		e.SetText(formatNumber(*v.(*float64)))
+	}
+	unitLbl := widget.NewLabel(fields[k].Unit())
+	errs := []fyne.CanvasObject{ws.board.label(path)}
+	for _, name := range g.Fields {
+		errs = append(errs, ws.board.label(path+"."+name))
+	}
+	// edits sets field j to v and clears the others.
+	edits := func(j int, v float64) []scene.Edit {
+		var out []scene.Edit
+		for m, name := range g.Fields {
+			var val any
+			if m == j {
+				val = v
+			}
+			out = append(out, scene.Edit{Path: path + "." + name, Value: val})
+		}
+		return out
+	}
+	choice.OnChanged = func(s string) {
+		j := indexOf(g.Names, s)
+		if j < 0 || j == k {
+			return
+		}
+		k = j
+		unitLbl.SetText(fields[j].Unit())
+		v, _ := fields[j].Default.(float64)
+		b.setAll(path+"."+g.Fields[j], edits(j, v)...)
+		b.quiet(func() { e.SetText(formatNumber(v)) })
+	}
+	e.OnChanged = func(text string) {
+		j := k
+		typed(b, path+"."+g.Fields[j], text, parseNumber, func(v float64) {
+			b.setAll(path+"."+g.Fields[j], edits(j, v)...)
+		})
+	}
+	return formRow(g.Label, container.NewBorder(nil, nil, choice, unitLbl, e), errs...)
+}
+
+// defectValue is the value of d's field name as the scene holds it
+// (string, []float64, []string or *float64) and whether it is set.
+func defectValue(d *scene.Defect, name string) (any, bool) { return d.Field(name) }
+
+// parseNumberPair reads two numbers typed as "from to" or "from, to".
+func parseNumberPair(text string) ([]float64, error) {
+	parts := strings.FieldsFunc(text, func(r rune) bool { return r == ' ' || r == ',' || r == '\t' || r == '[' || r == ']' })
+	if len(parts) != 2 {
+		return nil, fmt.Errorf("%q: type two numbers, from and to", text)
+	}
+	out := make([]float64, 2)
+	for i, p := range parts {
+		v, err := parseNumber(p)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = v
+	}
+	return out, nil
 }

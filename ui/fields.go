@@ -12,7 +12,6 @@ import (
 	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/widget"
 
-	"faultline/crystal"
 	"faultline/scene"
 )
 
@@ -206,27 +205,6 @@ func parseNumber(text string) (float64, error) {
 		return 0, fmt.Errorf("%q is not a number", text)
 	}
 	return v, nil
-}
-
-// parseIndexList reads three or four indices typed as "2 0 0", "2,0,0",
-// "[1 -1 0]", "(1 1 1)" or the compact "[1-10]". A leading factor is not
-// accepted here (it belongs to Burgers vectors, which are kept as text).
-func parseIndexList(text string) ([]float64, error) {
-	s := strings.TrimSpace(text)
-	if s == "" {
-		return nil, errors.New("empty: type three indices, e.g. 2 0 0")
-	}
-	if !strings.ContainsAny(s, "[(<{") {
-		s = "[" + s + "]"
-	}
-	ix, err := crystal.ParseIndices(s)
-	if err != nil {
-		return nil, err
-	}
-	if ix.Factor != 1 {
-		return nil, fmt.Errorf("%q: no factor here; type the indices only", text)
-	}
-	return ix.V, nil
 }
 
 // Formatting for display in fields.

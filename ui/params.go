@@ -11,18 +11,10 @@ import (
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/widget"
 
-	"faultline/crystal"
 	"faultline/scene"
 )
 
-// Deviation settings, in the order of the choice.
-const (
-	devS = iota
-	devW
-	devWeak
-	devKikuchi
-)
-
+// deviationNames name the forms of scene.DeviationForms in the choice.
 var deviationNames = []string{
 	"s, excitation error",
 	"w = s·ξg",
@@ -30,16 +22,10 @@ var deviationNames = []string{
 	"Kikuchi line position",
 }
 
-func deviationOf(d *scene.Diffraction) int {
-	switch {
-	case d.W != nil:
-		return devW
-	case d.WeakBeam != nil:
-		return devWeak
-	case d.Kikuchi != nil:
-		return devKikuchi
-	}
-	return devS
+// deviationIndex is the position of the scene's deviation form in
+// scene.DeviationForms.
+func deviationIndex(d *scene.Diffraction) int {
+	return indexOf(scene.DeviationForms, scene.DeviationForm(d))
 }
 
 // Slider ranges (the typed entry beside a slider accepts any value).
@@ -63,6 +49,9 @@ type paramsPanel struct {
 	KikSpacing  *widget.Entry
 	Thickness   *sliderField
 	Normal      *widget.Entry
+	Width       *widget.Entry
+	Height      *widget.Entry
+	NX, NY      *widget.Entry
 	Model       *widget.Select
 	Beams       *widget.Entry
 	Absorption  *widget.Entry
@@ -85,12 +74,12 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	ws.params = p
 
 	// Crystal.
-	presets := crystal.PresetNames()
+	presets := scene.Materials()
 	p.Material = widget.NewSelect(presets, func(name string) {
 		if name == "" || strings.HasPrefix(name, "CIF:") || name == explicitCellLabel {
 			return
 		}
-		b.edit("crystal.material", func(sc *scene.Scene) { sc.Crystal = scene.Crystal{Material: name} })
+		b.set("crystal", map[string]any{"material": name})
 	})
 	openCIF := widget.NewButton("Open CIF…", func() { ws.openCIF() })
 	p.CrystalInfo = widget.NewLabel("")
@@ -116,23 +105,20 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 
 	// Microscope.
 	p.Voltage = b.numberEntry("microscope.voltage_kv",
-		func(sc *scene.Scene) string { return formatNumber(sc.Microscope.VoltageKV) },
-		func(sc *scene.Scene, v float64) { sc.Microscope.VoltageKV = v })
+		func(sc *scene.Scene) string { return formatNumber(sc.Microscope.VoltageKV) })
 	micro := form(formRow("Voltage", unit(p.Voltage, "kV"), board.label("microscope.voltage_kv")))
 
 	// Diffraction: g, beam, the zone's reflections.
 	p.G = b.indicesEntry("diffraction.g", false,
-		func(sc *scene.Scene) []float64 { return sc.Diffraction.G },
-		func(sc *scene.Scene, v []float64) { sc.Diffraction.G = v })
+		func(sc *scene.Scene) []float64 { return sc.Diffraction.G })
 	p.Beam = b.indicesEntry("diffraction.beam", false,
-		func(sc *scene.Scene) []float64 { return sc.Diffraction.Beam },
-		func(sc *scene.Scene, v []float64) { sc.Diffraction.Beam = v })
+		func(sc *scene.Scene) []float64 { return sc.Diffraction.Beam })
 	p.Reflections = widget.NewSelect(nil, func(opt string) {
 		hkl, ok := p.reflHKL[opt]
 		if !ok {
 			return
 		}
-		b.edit("diffraction.g", func(sc *scene.Scene) { sc.Diffraction.G = append([]float64(nil), hkl...) })
+		b.set("diffraction.g", hkl)
 		b.quiet(func() { p.G.SetText(formatIndices(hkl)) })
 	})
 	p.Reflections.PlaceHolder = "(reflections of the zone B)"
@@ -144,50 +130,51 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 				return *d, true
 			}
 			return 0, false
-		},
-		func(sc *scene.Scene, v float64) { setDeviation(&sc.Diffraction, devS); sc.Diffraction.SPerNm = ptr(v) })
+		})
 	p.W = b.sliderField("diffraction.w", wMin, wMax, wStep,
 		func(sc *scene.Scene) (float64, bool) {
 			if d := sc.Diffraction.W; d != nil {
 				return *d, true
 			}
 			return 0, false
-		},
-		func(sc *scene.Scene, v float64) { setDeviation(&sc.Diffraction, devW); sc.Diffraction.W = ptr(v) })
+		})
 	p.WeakN = b.numberEntry("diffraction.weak_beam.n",
 		func(sc *scene.Scene) string {
 			if w := sc.Diffraction.WeakBeam; w != nil {
 				return formatNumber(w.N)
 			}
 			return "3"
-		},
-		func(sc *scene.Scene, v float64) {
-			setDeviation(&sc.Diffraction, devWeak)
-			sc.Diffraction.WeakBeam = &scene.WeakBeam{N: v}
 		})
-	kik := func(sc *scene.Scene) *scene.Kikuchi {
-		if sc.Diffraction.Kikuchi == nil {
-			setDeviation(&sc.Diffraction, devKikuchi)
-			sc.Diffraction.Kikuchi = &scene.Kikuchi{Spacing: 1}
+	// The offset and spacing are set as one object: the form needs both.
+	kik := func(sc *scene.Scene, offset, spacing *float64) []scene.Edit {
+		k := scene.Kikuchi{Spacing: 1}
+		if sc.Diffraction.Kikuchi != nil {
+			k = *sc.Diffraction.Kikuchi
 		}
-		return sc.Diffraction.Kikuchi
+		if offset != nil {
+			k.Offset = *offset
+		}
+		if spacing != nil {
+			k.Spacing = *spacing
+		}
+		return []scene.Edit{{Path: "diffraction.deviation_from_kikuchi", Value: k}}
 	}
-	p.KikOffset = b.numberEntry("diffraction.deviation_from_kikuchi.offset",
+	p.KikOffset = b.numberEntryTo("diffraction.deviation_from_kikuchi.offset",
 		func(sc *scene.Scene) string {
 			if k := sc.Diffraction.Kikuchi; k != nil {
 				return formatNumber(k.Offset)
 			}
 			return "0"
 		},
-		func(sc *scene.Scene, v float64) { kik(sc).Offset = v })
-	p.KikSpacing = b.numberEntry("diffraction.deviation_from_kikuchi.spacing",
+		func(sc *scene.Scene, v float64) []scene.Edit { return kik(sc, &v, nil) })
+	p.KikSpacing = b.numberEntryTo("diffraction.deviation_from_kikuchi.spacing",
 		func(sc *scene.Scene) string {
 			if k := sc.Diffraction.Kikuchi; k != nil {
 				return formatNumber(k.Spacing)
 			}
 			return "1"
 		},
-		func(sc *scene.Scene, v float64) { kik(sc).Spacing = v })
+		func(sc *scene.Scene, v float64) []scene.Edit { return kik(sc, nil, &v) })
 
 	devForms := []fyne.CanvasObject{
 		form(formRow("s", p.S.object("1/nm"), board.label("diffraction.s_per_nm"))),
@@ -214,15 +201,15 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	p.Deviation = widget.NewSelect(deviationNames, func(name string) {
 		k := indexOf(deviationNames, name)
 		showDev(k)
-		if b.syncing > 0 || k < 0 || deviationOf(&ws.ctrl.Scene().Diffraction) == k {
+		if b.syncing > 0 || k < 0 || deviationIndex(&ws.ctrl.Scene().Diffraction) == k {
 			return
 		}
-		st := ws.ctrl.LastGoodSetup()
-		b.edit("diffraction", func(sc *scene.Scene) { convertDeviation(&sc.Diffraction, k, st) })
+		form := scene.DeviationForms[k]
+		b.set("diffraction."+form, deviationValue(ws.ctrl.LastGoodSetup(), form))
 		b.readAll()
 	})
 	b.reader(func(sc *scene.Scene) {
-		k := deviationOf(&sc.Diffraction)
+		k := deviationIndex(&sc.Diffraction)
 		p.Deviation.SetSelected(deviationNames[k])
 		showDev(k)
 	})
@@ -238,8 +225,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 				return "5"
 			}
 			return fmt.Sprint(sc.Diffraction.Beams)
-		},
-		func(sc *scene.Scene, v float64) { sc.Diffraction.Beams = int(math.Round(v)) })
+		})
 	beamsRow := form(formRow("Beams", unit(p.Beams, "odd, 3 to 31"), board.label("diffraction.beams")))
 	p.Model = widget.NewSelect(scene.Models, func(m string) {
 		if m == "systematic-row" {
@@ -250,16 +236,15 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		if b.syncing > 0 {
 			return
 		}
-		b.edit("diffraction.model", func(sc *scene.Scene) {
-			sc.Diffraction.Model = m
-			if m == "systematic-row" {
-				if sc.Diffraction.Beams == 0 {
-					sc.Diffraction.Beams = 5
-				}
-			} else {
-				sc.Diffraction.Beams = 0
+		// The number of beams belongs to the systematic row only.
+		var beams any
+		if m == "systematic-row" {
+			beams = 5
+			if n := ws.ctrl.Scene().Diffraction.Beams; n != 0 {
+				beams = n
 			}
-		})
+		}
+		b.setAll("diffraction.model", scene.Edit{Path: "diffraction.model", Value: m}, scene.Edit{Path: "diffraction.beams", Value: beams})
 		b.readAll()
 	})
 	b.reader(func(sc *scene.Scene) {
@@ -275,11 +260,9 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		}
 	})
 	p.Absorption = b.optionalNumberEntry("diffraction.absorption_ratio", fmt.Sprintf("%g (default)", scene.DefaultAbsorptionRatio),
-		func(sc *scene.Scene) *float64 { return sc.Diffraction.AbsorptionRatio },
-		func(sc *scene.Scene, v *float64) { sc.Diffraction.AbsorptionRatio = v })
+		func(sc *scene.Scene) *float64 { return sc.Diffraction.AbsorptionRatio })
 	p.Extinction = b.optionalNumberEntry("diffraction.extinction_nm", "computed from the crystal",
-		func(sc *scene.Scene) *float64 { return sc.Diffraction.ExtinctionNm },
-		func(sc *scene.Scene, v *float64) { sc.Diffraction.ExtinctionNm = v })
+		func(sc *scene.Scene) *float64 { return sc.Diffraction.ExtinctionNm })
 
 	diffraction := container.NewVBox(
 		form(
@@ -303,11 +286,9 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 
 	// Foil.
 	p.Thickness = b.sliderField("foil.thickness_nm", thicknessMinNm, thicknessMaxNm, thicknessStepNm,
-		func(sc *scene.Scene) (float64, bool) { return sc.Foil.ThicknessNm, true },
-		func(sc *scene.Scene, v float64) { sc.Foil.ThicknessNm = v })
+		func(sc *scene.Scene) (float64, bool) { return sc.Foil.ThicknessNm, true })
 	p.Normal = b.indicesEntry("foil.normal", true,
-		func(sc *scene.Scene) []float64 { return sc.Foil.Normal },
-		func(sc *scene.Scene, v []float64) { sc.Foil.Normal = v })
+		func(sc *scene.Scene) []float64 { return sc.Foil.Normal })
 	p.Normal.SetPlaceHolder("along the beam")
 	foil := form(
 		formRow("Thickness t", p.Thickness.object("nm"), board.label("foil.thickness_nm")),
@@ -316,30 +297,25 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 
 	// Image field.
 	width := b.numberEntry("image.width_nm",
-		func(sc *scene.Scene) string { return formatNumber(sc.Image.WidthNm) },
-		func(sc *scene.Scene, v float64) { sc.Image.WidthNm = v })
+		func(sc *scene.Scene) string { return formatNumber(sc.Image.WidthNm) })
 	height := b.numberEntry("image.height_nm",
-		func(sc *scene.Scene) string { return formatNumber(sc.Image.HeightNm) },
-		func(sc *scene.Scene, v float64) { sc.Image.HeightNm = v })
+		func(sc *scene.Scene) string { return formatNumber(sc.Image.HeightNm) })
 	pixel := func(k int) *widget.Entry {
-		return b.numberEntry("image.pixels",
+		return b.numberEntryTo("image.pixels",
 			func(sc *scene.Scene) string {
 				if len(sc.Image.Pixels) > k {
 					return fmt.Sprint(sc.Image.Pixels[k])
 				}
 				return ""
 			},
-			func(sc *scene.Scene, v float64) {
-				for len(sc.Image.Pixels) < 2 {
-					sc.Image.Pixels = append(sc.Image.Pixels, 0)
-				}
-				sc.Image.Pixels[k] = int(math.Round(v))
+			func(sc *scene.Scene, v float64) []scene.Edit {
+				return []scene.Edit{{Path: fmt.Sprintf("image.pixels[%d]", k), Value: v}}
 			})
 	}
 	nx, ny := pixel(0), pixel(1)
+	p.Width, p.Height, p.NX, p.NY = width, height, nx, ny
 	blur := b.optionalNumberEntry("image.blur_nm", "none",
-		func(sc *scene.Scene) *float64 { return sc.Image.BlurNm },
-		func(sc *scene.Scene, v *float64) { sc.Image.BlurNm = v })
+		func(sc *scene.Scene) *float64 { return sc.Image.BlurNm })
 	pxInfo := widget.NewLabel("")
 	pxInfo.TextStyle = fyne.TextStyle{Italic: true}
 	imageBox := form(
@@ -364,7 +340,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 			return
 		}
 		p.CrystalInfo.SetText(crystalInfo(st))
-		p.Derived.SetText(derivedText(st))
+		p.Derived.SetText(st.Describe())
 		p.Notes.SetText(strings.Join(st.Notes, "\n"))
 		p.updateReflections(st, b)
 	})
@@ -403,53 +379,34 @@ func (p *paramsPanel) openSectionOf(err error) {
 
 const explicitCellLabel = "explicit cell (from the scene file)"
 
-// setDeviation clears every deviation setting but k.
-func setDeviation(d *scene.Diffraction, k int) {
-	if k != devS {
-		d.SPerNm = nil
-	}
-	if k != devW {
-		d.W = nil
-	}
-	if k != devWeak {
-		d.WeakBeam = nil
-	}
-	if k != devKikuchi {
-		d.Kikuchi = nil
-	}
-}
-
-// convertDeviation switches the deviation setting to k, keeping the
-// excitation error of the last setup that built where it can be written in
-// the new form.
-func convertDeviation(d *scene.Diffraction, k int, st *scene.Setup) {
-	s, xi, lg2 := 0.0, 0.0, 0.0
-	if st != nil {
-		s, xi = st.SPerNm, st.XiGNm
-		lg2 = st.WavelengthNm * st.GPerNm * st.GPerNm
-	}
-	setDeviation(d, k)
-	switch k {
-	case devS:
-		d.SPerNm = ptr(roundTo(s, sStep/10))
-	case devW:
-		d.W = ptr(roundTo(s*xi, wStep))
-	case devWeak:
-		// s = (n − 1) λ g²/2; keep n = 3 unless s already sits beyond the
-		// Bragg position of 2g.
-		n := 3.0
-		if lg2 > 0 && s > lg2/2 {
-			n = math.Round(1 + 2*s/lg2)
+// deviationValue is the value of the deviation form that keeps the
+// excitation error of st (the last setup that built), as the library
+// derives it (Setup.DeviationAs), rounded to the steps the fields show.
+// With no setup the form starts at its neutral value.
+func deviationValue(st *scene.Setup, form string) any {
+	if st == nil {
+		switch form {
+		case "weak_beam":
+			return map[string]any{"n": 3}
+		case "deviation_from_kikuchi":
+			return map[string]any{"offset": 0, "spacing": 1}
 		}
-		d.WeakBeam = &scene.WeakBeam{N: n}
-	case devKikuchi:
-		// s = λ g² Δx / x with the spacing x = 1.
-		off := 0.0
-		if lg2 > 0 {
-			off = roundTo(s/lg2, 1e-4)
-		}
-		d.Kikuchi = &scene.Kikuchi{Offset: off, Spacing: 1}
+		return 0.0
 	}
+	v, err := st.DeviationAs(form)
+	if err != nil {
+		return nil
+	}
+	switch form {
+	case "s_per_nm":
+		return roundTo(v.(float64), sStep/10)
+	case "w":
+		return roundTo(v.(float64), wStep)
+	case "deviation_from_kikuchi":
+		k := v.(map[string]any)
+		k["offset"] = roundTo(k["offset"].(float64), 1e-4)
+	}
+	return v
 }
 
 func roundTo(v, step float64) float64 { return math.Round(v/step) * step }
@@ -480,12 +437,6 @@ func crystalInfo(st *scene.Setup) string {
 		s += "; no elastic constants (dislocations need them)"
 	}
 	return s
-}
-
-// derivedText lists the numbers the conditions come to.
-func derivedText(st *scene.Setup) string {
-	return fmt.Sprintf("λ = %.4g pm, d = %.4g nm, ξg = %.4g nm%s; s = %.4g /nm, w = s·ξg = %.3g",
-		st.WavelengthNm*1000, st.DSpacingNm, st.XiGNm, map[bool]string{true: "", false: " (given)"}[st.XiGComputed], st.SPerNm, st.W)
 }
 
 // updateReflections fills the choice of g with the zone's reflections
@@ -540,14 +491,19 @@ func (ws *Workspace) openCIF() {
 // to the scene's directory where it can be. A file that does not read as a
 // CIF is reported on the crystal field and the crystal stays as it was.
 func (ws *Workspace) useCIF(path string) {
-	if _, err := crystal.LoadCIF(path); err != nil {
-		ws.board.setLocal("crystal", "CIF: "+err.Error())
-		return
-	}
 	rel := path
 	if r, err := filepath.Rel(ws.ctrl.Dir(), path); err == nil && !strings.HasPrefix(r, "..") {
 		rel = r
 	}
-	ws.binder.edit("crystal", func(sc *scene.Scene) { sc.Crystal = scene.Crystal{CIF: rel} })
+	if err := scene.CheckCrystal(scene.Crystal{CIF: rel}, ws.ctrl.Dir()); err != nil {
+		var fe *scene.FieldError
+		msg := err.Error()
+		if errors.As(err, &fe) {
+			msg = fe.Msg
+		}
+		ws.board.setLocal("crystal", "CIF: "+msg)
+		return
+	}
+	ws.binder.set("crystal", map[string]any{"cif": rel})
 	ws.binder.readAll()
 }

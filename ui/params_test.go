@@ -25,7 +25,7 @@ func TestDeviationSwitch(t *testing.T) {
 	s0, xi := st.SPerNm, st.XiGNm
 	lg2 := st.WavelengthNm * st.GPerNm * st.GPerNm
 
-	ws.params.Deviation.SetSelected(deviationNames[devW])
+	ws.params.Deviation.SetSelected(devName("w"))
 	d := ws.ctrl.Scene().Diffraction
 	if d.W == nil || d.SPerNm != nil || math.Abs(*d.W-roundTo(s0*xi, wStep)) > 1e-12 {
 		t.Fatalf("w mode: w = %v, s = %v; want w = s·ξg = %.4g rounded to %g", d.W, d.SPerNm, s0*xi, wStep)
@@ -37,7 +37,7 @@ func TestDeviationSwitch(t *testing.T) {
 		t.Error("the w entry is empty")
 	}
 
-	ws.params.Deviation.SetSelected(deviationNames[devWeak])
+	ws.params.Deviation.SetSelected(devName("weak_beam"))
 	d = ws.ctrl.Scene().Diffraction
 	if d.WeakBeam == nil || d.WeakBeam.N != 3 || d.W != nil {
 		t.Fatalf("weak beam: %+v", d)
@@ -51,7 +51,7 @@ func TestDeviationSwitch(t *testing.T) {
 		t.Errorf("typed n = 4, scene has %g", n)
 	}
 
-	ws.params.Deviation.SetSelected(deviationNames[devKikuchi])
+	ws.params.Deviation.SetSelected(devName("deviation_from_kikuchi"))
 	d = ws.ctrl.Scene().Diffraction
 	if d.Kikuchi == nil || d.WeakBeam != nil || d.Kikuchi.Spacing != 1 {
 		t.Fatalf("Kikuchi: %+v", d)
@@ -61,12 +61,15 @@ func TestDeviationSwitch(t *testing.T) {
 		t.Errorf("Kikuchi offset %g spacings, want 1.5 for g(4g)", d.Kikuchi.Offset)
 	}
 
-	ws.params.Deviation.SetSelected(deviationNames[devS])
+	ws.params.Deviation.SetSelected(devName("s_per_nm"))
 	d = ws.ctrl.Scene().Diffraction
 	if d.SPerNm == nil || d.Kikuchi != nil || math.Abs(*d.SPerNm-1.5*lg2) > 1e-4 {
 		t.Errorf("back to s: %v, want %g", d.SPerNm, 1.5*lg2)
 	}
 }
+
+// devName is the name in the choice of the deviation form.
+func devName(form string) string { return deviationNames[indexOf(scene.DeviationForms, form)] }
 
 // Choosing a reflection of the zone sets g; forbidden ones are offered,
 // marked, and refused with the library's message under g.

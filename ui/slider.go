@@ -11,7 +11,8 @@ import (
 )
 
 // sliderField is a slider with a typed entry beside it for one number of
-// the scene. Moving the slider writes the entry and edits the scene;
+// the scene at a path. Moving the slider writes the entry and sets the
+// field;
 // typing writes the slider (clamped to its range, while the typed value
 // itself may lie outside it) and edits the scene.
 type sliderField struct {
@@ -20,7 +21,7 @@ type sliderField struct {
 	step   float64
 }
 
-func (b *binder) sliderField(path string, min, max, step float64, get func(sc *scene.Scene) (float64, bool), set func(sc *scene.Scene, v float64)) *sliderField {
+func (b *binder) sliderField(path string, min, max, step float64, get func(sc *scene.Scene) (float64, bool)) *sliderField {
 	f := &sliderField{Slider: widget.NewSlider(min, max), Entry: widget.NewEntry(), step: step}
 	f.Slider.Step = step
 	f.Slider.OnChanged = func(v float64) {
@@ -32,12 +33,12 @@ func (b *binder) sliderField(path string, min, max, step float64, get func(sc *s
 		text := formatStep(v, step)
 		b.quiet(func() { f.Entry.SetText(text) })
 		v, _ = parseNumber(text)
-		b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+		b.set(path, v)
 	}
 	f.Entry.OnChanged = func(text string) {
 		typed(b, path, text, parseNumber, func(v float64) {
 			b.quiet(func() { f.Slider.SetValue(clamp(v, min, max)) })
-			b.edit(path, func(sc *scene.Scene) { set(sc, v) })
+			b.set(path, v)
 		})
 	}
 	b.reader(func(sc *scene.Scene) {

@@ -173,8 +173,7 @@ func TestSystematicRowShowsLibraryError(t *testing.T) {
 	}
 }
 
-// Every defect type can be added; those the library refuses are marked
-// as not yet available, kept in the scene, and their error is shown.
+// Every defect type can be added from its template and builds.
 func TestDefectsEditor(t *testing.T) {
 	fr := &fakeRender{}
 	ws, p := newTestWorkspace(t, fr.render)
@@ -182,7 +181,7 @@ func TestDefectsEditor(t *testing.T) {
 	n0 := len(ws.ctrl.Scene().Defects)
 	for _, kind := range scene.DefectTypes {
 		k := len(ws.ctrl.Scene().Defects)
-		dp.AddType.SetSelected(typeOption(kind))
+		dp.AddType.SetSelected(kind)
 		dp.Add.OnTapped()
 		sc := ws.ctrl.Scene()
 		if len(sc.Defects) != k+1 || sc.Defects[k].Type != kind {
@@ -192,21 +191,6 @@ func TestDefectsEditor(t *testing.T) {
 			t.Errorf("the new %s is not selected (selected %d)", kind, dp.selected)
 		}
 		err := ws.ctrl.Err()
-		if !availableTypes()[kind] {
-			var fe *scene.FieldError
-			if !errors.As(err, &fe) || fe.Path != "defects["+itoa(k)+"].type" {
-				t.Errorf("%s: error %v, want one at its type", kind, err)
-			}
-			if l := ws.board.labels["defects["+itoa(k)+"].type"]; l == nil || !l.Visible() {
-				t.Errorf("%s: no error shown next to its type", kind)
-			}
-			if !strings.Contains(typeOption(kind), "not yet available") {
-				t.Errorf("%s offered as %q", kind, typeOption(kind))
-			}
-			// Remove it again so the next type is tried on a scene that builds.
-			dp.Remove.OnTapped()
-			continue
-		}
 		if err != nil {
 			t.Errorf("adding the template %s: %v", kind, err)
 		}
