@@ -21,7 +21,7 @@ func TestFitRecoversThicknessAndS(t *testing.T) {
 	  "foil": {"thickness_nm": 100},
 	  "defects": [{"type": "fault", "plane": [1, 1, 1], "shift": "-1/3[1 1 1]", "at_nm": [0, 0, 50]}],
 	  "image": {"width_nm": 100, "height_nm": 100, "pixels": [50, 50]}}`)
-	mics := synthetic(t, truth, []json.RawMessage{json.RawMessage(`{"g": [1, 1, -1], "beam": [0, 1, 1], "s_per_nm": 0.01}`)}, []float64{20}, BrightField, 96, 1.6, 1.5, 40, 5)
+	mics := synthetic(t, truth, []json.RawMessage{json.RawMessage(`{"g": [1, 1, -1], "beam": [0, 1, 1], "s_per_nm": 0.01}`)}, []float64{20}, BrightField, 72, 1.6, 1.5, 40, 5)
 	start, err := scene.Parse(truth)
 	if err != nil {
 		t.Fatal(err)

@@ -131,7 +131,7 @@ func TestIdentifySyntheticSeries(t *testing.T) {
 				conds = append(conds, json.RawMessage(fmt.Sprintf(`{"g": %s, "beam": %s, "w": 0.5}`, cd.g, cd.beam)))
 				angles = append(angles, specimenAngle(t, base, vec(t, cd.g), vec(t, cd.beam), vec(t, c.xAxis)))
 			}
-			mics := synthetic(t, base, conds, angles, BrightField, 56, 1.6, 1.5, 40, 11)
+			mics := synthetic(t, base, conds, angles, BrightField, 40, 2, 1.5, 40, 11)
 			s := &Series{Base: base, Dir: ".", Micrographs: mics, Candidates: burgersCandidates(t, base, c.family, 0), BlurNm: 1.5}
 			ranked, err := Identify(context.Background(), s, Options{})
 			if err != nil {
