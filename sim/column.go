@@ -8,15 +8,26 @@ import (
 )
 
 // Step control of the column integrator. Within a slab the phase
-// γ(z) = g·R(z) is replaced by its chord; a slab is accepted when γ at its
-// quarter points departs from the chord by no more than the tolerance (in
-// cycles), otherwise it is halved. Accepted slabs double for the next try.
-// With a perfect crystal the chord is exact and the column is crossed in a
-// few closed-form slabs.
+// γ(z) = g·R(z) is replaced by its chord, with the departures d1, d2 from
+// the chord at the two Gauss nodes handed to the fourth-order step. The
+// error indicator of a slab is
+//
+//	e = max(|d1|, |d2|) · (floorWeight + (c/beatScale)²),
+//
+// c the number of beat cycles (Stepper.Beat) the slab holds: the step's
+// error per unit departure grows as c² while the slab holds less than
+// about a cycle and stays bounded beyond (measured against sub-stepped
+// slabs, TestSlabErrorModel). A slab is accepted when e ≤ the tolerance
+// (in cycles); otherwise it is retried at the length predicted from e,
+// taking d ∝ h² and c ∝ h. The next slab's length is predicted the same
+// way from the accepted one (at most tripling), and the first slab of a
+// stretch holds firstCycles of the beat. With a perfect crystal the chord
+// is exact and the column is crossed in one closed-form slab.
 const (
-	// DefaultTolerance is the phase tolerance in cycles. With it the exit
+	// DefaultTolerance is the tolerance in cycles. With it the exit
 	// intensities agree with a converged solution to better than 1e-4 of
-	// the incident beam (TestAccuracyAgainstConverged).
+	// the incident beam (TestAccuracyAgainstConverged and, on real scenes,
+	// tests.TestDefaultToleranceAgainstConverged).
 	DefaultTolerance = 5e-5
 	// minSlabNm is the smallest slab: it only matters within a few
 	// hundredths of a nanometre of a dislocation core, where the elastic
@@ -24,9 +35,21 @@ const (
 	minSlabNm = 1e-3
 	// inset keeps phase evaluations off the surfaces across which R jumps.
 	inset = 1e-9
-	// beatCycles is the number of beat cycles a slab may hold before the
-	// error indicator is scaled up.
-	beatCycles = 0.5
+	// beatScale is the number of beat cycles at which the error indicator
+	// doubles: 1/√12, from the measured error of the step, ≈ 12 c² per
+	// unit departure (TestSlabErrorModel).
+	beatScale = 0.29
+	// firstCycles is the length of the first slab of a stretch, in beat
+	// cycles.
+	firstCycles = 0.5
+	// safety is the fraction of the tolerance a predicted slab aims at.
+	safety = 0.7
+	// floorWeight weighs the departure of a slab that holds few beat
+	// cycles. The step is of fourth order, so a departure that is
+	// quadratic or cubic in depth costs little error there (≈ 12 c² per
+	// unit departure); the floor bounds the content of higher order that
+	// the two nodes do not see.
+	floorWeight = 0.1
 )
 
 // column integrates one column; each worker owns one.
@@ -36,7 +59,6 @@ type column struct {
 	psi    []complex128
 	out    []float64
 	tol    float64
-	hMax   float64
 	jumper Jumper
 	voider Voider
 	breaks []float64
@@ -45,6 +67,8 @@ type column struct {
 	phase  func(p r3.Vec) float64
 	nEvals int
 	nSlabs int
+	// nRejects counts retried slab attempts.
+	nRejects int
 	gNorm  float64
 	hasFld bool
 }
@@ -64,7 +88,6 @@ func newColumn(p *Problem, phase func(r3.Vec) float64) *column {
 	if c.tol <= 0 {
 		c.tol = DefaultTolerance
 	}
-	c.hMax = p.ThicknessNm / 4
 	if p.Field != nil {
 		c.hasFld = true
 		c.jumper, _ = p.Field.(Jumper)
@@ -142,12 +165,8 @@ func (c *column) inVoid(a, b float64) bool {
 // segment integrates a stretch [a, b] of crystal over which R is continuous,
 // starting with γ(a) = ga, and returns γ at its end.
 //
-// Each slab samples γ at its end and at its two Gauss nodes. The
-// departures from the chord at the nodes feed the fourth-order slab
-// propagator; the larger departure is the error indicator,
-// which for a smooth γ scales as h². A slab whose indicator exceeds the
-// tolerance is retried shorter; the next slab's length is predicted from the
-// indicator (a standard step-size controller, at most doubling).
+// Each slab samples γ at its end and at its two Gauss nodes; see the step
+// control above.
 func (c *column) segment(a, b, ga float64) float64 {
 	if !c.hasFld {
 		c.st.Crystal(c.psi, b-a, 0, 0, 0)
@@ -155,9 +174,9 @@ func (c *column) segment(a, b, ga float64) float64 {
 		return 0
 	}
 	za := a
-	h := math.Min(c.hMax, b-a)
+	h := math.Min(b-a, firstCycles/c.st.Beat(0))
 	for b-za > 1e-12 {
-		var gb, d1, d2, err float64
+		var gb, d1, d2, dep, cyc float64
 		for {
 			last := za+h >= b-1e-12
 			if last {
@@ -169,14 +188,9 @@ func (c *column) segment(a, b, ga float64) float64 {
 			d := gb - ga
 			d1 = c.gamma(za+gaussNodes[0]*h) - ga - gaussNodes[0]*d
 			d2 = c.gamma(za+gaussNodes[1]*h) - ga - gaussNodes[1]*d
-			err = math.Max(math.Abs(d1), math.Abs(d2))
-			// The Gauss nodes resolve the departures only while the slab
-			// holds less than about one cycle of the beat between the
-			// beams; beyond that the indicator grows with the square of
-			// the number of cycles.
-			if cyc := c.st.Beat(d/h) * h; cyc > beatCycles {
-				err *= (cyc / beatCycles) * (cyc / beatCycles)
-			}
+			dep = math.Max(math.Abs(d1), math.Abs(d2))
+			cyc = c.st.Beat(d/h) * h
+			err := dep * (floorWeight + (cyc/beatScale)*(cyc/beatScale))
 			if math.IsNaN(err) || math.IsInf(err, 0) {
 				// The field is not finite here: poison the amplitudes so
 				// Render reports the column, and stop.
@@ -186,7 +200,8 @@ func (c *column) segment(a, b, ga float64) float64 {
 			if err <= c.tol || h <= minSlabNm {
 				break
 			}
-			h *= math.Max(0.2, 0.9*math.Sqrt(c.tol/err))
+			c.nRejects++
+			h *= math.Max(0.1, math.Min(0.9, predict(dep, cyc, c.tol)))
 			if h < minSlabNm {
 				h = minSlabNm
 			}
@@ -195,11 +210,25 @@ func (c *column) segment(a, b, ga float64) float64 {
 		c.nSlabs++
 		za += h
 		ga = gb
-		grow := 2.0
-		if err > 0 {
-			grow = math.Min(2, 0.9*math.Sqrt(c.tol/err))
-		}
-		h = math.Min(h*math.Max(grow, 0.5), c.hMax)
+		h *= math.Min(3, predict(dep, cyc, c.tol))
 	}
 	return ga
+}
+
+// predict returns the factor r by which a slab of departure dep holding
+// cyc beat cycles is scaled so that its indicator, with dep ∝ h² and
+// cyc ∝ h, meets safety × tol: the positive root of
+// A r² + B r⁴ = safety·tol, A = dep, B = dep·(cyc/beatScale)².
+func predict(dep, cyc, tol float64) float64 {
+	if dep == 0 {
+		return math.Inf(1)
+	}
+	t := safety * tol
+	aa := floorWeight * dep
+	bb := dep * (cyc / beatScale) * (cyc / beatScale)
+	if bb < 1e-6*aa {
+		return math.Sqrt(t / aa)
+	}
+	r2 := 2 * t / (aa + math.Sqrt(aa*aa+4*bb*t))
+	return math.Sqrt(r2)
 }

@@ -90,14 +90,13 @@ func (st *twoBeamStepper) Crystal(psi []complex128, h, slope, d1, d2 float64) {
 		expm2Apply(psi, h, -st.mu, kappa, st.q, st.q)
 		return
 	}
+	// e^{−2πiδ} is the conjugate of e^{+2πiδ}: no division.
 	e1, e2 := phase(d1), phase(d2)
-	up1 := st.q * (complex(cf4a1, 0)*e1 + complex(cf4a2, 0)*e2)
-	lo1 := st.q * (complex(cf4a1, 0)/e1 + complex(cf4a2, 0)/e2)
-	up2 := st.q * (complex(cf4a2, 0)*e1 + complex(cf4a1, 0)*e2)
-	lo2 := st.q * (complex(cf4a2, 0)/e1 + complex(cf4a1, 0)/e2)
+	c1, c2 := cmplx.Conj(e1), cmplx.Conj(e2)
 	// α1 + α2 = 1/2 for each factor, hence h/2 with the weights doubled.
-	expm2Apply(psi, h/2, -st.mu, kappa, 2*up1, 2*lo1)
-	expm2Apply(psi, h/2, -st.mu, kappa, 2*up2, 2*lo2)
+	q1, q2 := st.q*complex(2*cf4a1, 0), st.q*complex(2*cf4a2, 0)
+	expm2Apply(psi, h/2, -st.mu, kappa, q1*e1+q2*e2, q1*c1+q2*c2)
+	expm2Apply(psi, h/2, -st.mu, kappa, q2*e1+q1*e2, q2*c1+q1*c2)
 }
 
 // Weights of the fourth-order commutator-free Magnus integrator.
@@ -114,28 +113,58 @@ var (
 //	    [ c   m + iκ ]
 //
 // written as exp(h·tr/2)·(cosh(λh)·I + sinh(λh)/λ·(M − tr/2·I)) with
-// λ² = ((M00 − M11)/2)² + b·c, which is even in λ so the branch of the
-// square root does not matter.
+// λ² = ((M00 − M11)/2)² + b·c = bc − κ²/4, which is even in λ so the branch
+// of the square root does not matter. With x = λh,
+//
+//	e^{h·tr/2}·cosh x = (E₊ + E₋)/2,  e^{h·tr/2}·sinh x = (E₊ − E₋)/2,
+//	E± = e^{mh ± Re x} · e^{i(κh/2 ± Im x)},
+//
+// two real exponentials and two sincos; 1/λ is conj(λ)/|λ|².
 func expm2Apply(psi []complex128, h, m, kappa float64, b, c complex128) {
-	half := complex(m, kappa/2)   // tr/2
-	delta := complex(0, -kappa/2) // (M00 − M11)/2
-	lam := cmplx.Sqrt(delta*delta + b*c)
-	x := lam * complex(h, 0)
-	var ch, shOverLam complex128
-	if cmplx.Abs(x) < 1e-3 {
-		x2 := x * x
-		ch = 1 + x2/2 + x2*x2/24
-		shOverLam = complex(h, 0) * (1 + x2/6 + x2*x2/120)
+	l2 := b*c + complex(-kappa*kappa/4, 0)
+	lam, abs := csqrt(l2)
+	xr, xi := real(lam)*h, imag(lam)*h
+	dk := complex(0, -kappa/2) // (M00 − M11)/2
+	mh, kh := m*h, kappa*h/2
+	var fch, fsh complex128 // e^{h tr/2}·cosh x and e^{h tr/2}·sinh(x)/λ
+	if x2 := xr*xr + xi*xi; x2 < 1e-6 {
+		// Series: cosh x = 1 + x²/2 + x⁴/24, sinh(x)/λ = h(1 + x²/6 + x⁴/120).
+		xx := l2 * complex(h*h, 0)
+		sn, cs := math.Sincos(kh)
+		f := complex(math.Exp(mh)*cs, math.Exp(mh)*sn)
+		fch = f * (1 + xx/2 + xx*xx/24)
+		fsh = f * complex(h, 0) * (1 + xx/6 + xx*xx/120)
 	} else {
-		ep := cmplx.Exp(x)
-		em := 1 / ep
-		ch = (ep + em) / 2
-		shOverLam = (ep - em) / (2 * lam)
+		ep, em := math.Exp(mh+xr), math.Exp(mh-xr)
+		sp, cp := math.Sincos(kh + xi)
+		sm, cm := math.Sincos(kh - xi)
+		Ep := complex(ep*cp, ep*sp)
+		Em := complex(em*cm, em*sm)
+		fch = (Ep + Em) * 0.5
+		// 1/λ = conj(λ)/|λ|², |λ|² = |λ²|.
+		w := 0.5 / abs
+		fsh = (Ep - Em) * complex(real(lam)*w, -imag(lam)*w)
 	}
-	f := cmplx.Exp(half * complex(h, 0))
 	p0, p1 := psi[0], psi[1]
-	psi[0] = f * (ch*p0 + shOverLam*(delta*p0+b*p1))
-	psi[1] = f * (ch*p1 + shOverLam*(c*p0-delta*p1))
+	psi[0] = fch*p0 + fsh*(dk*p0+b*p1)
+	psi[1] = fch*p1 + fsh*(c*p0-dk*p1)
+}
+
+// csqrt returns the principal square root of z and |z|, without the
+// special cases (infinities, signed zeros) of cmplx.Sqrt that a finite 2×2
+// step never meets.
+func csqrt(z complex128) (complex128, float64) {
+	a, b := real(z), imag(z)
+	r := math.Sqrt(a*a + b*b)
+	if a >= 0 {
+		t := math.Sqrt((r + a) / 2)
+		if t == 0 {
+			return 0, r
+		}
+		return complex(t, b/(2*t)), r
+	}
+	t := math.Sqrt((r - a) / 2)
+	return complex(math.Abs(b)/(2*t), math.Copysign(t, b)), r
 }
 
 // Beat is the Pendellösung frequency sqrt((s + β)² + 1/ξ_g²).

@@ -145,3 +145,17 @@ func TestKinematicalLimitOfDynamical(t *testing.T) {
 		}
 	}
 }
+
+// csqrt against the standard library's principal square root over all
+// four quadrants and the axes.
+func TestCsqrt(t *testing.T) {
+	for _, z := range []complex128{0, 4, -4, 4i, -4i, complex(3, 4), complex(-3, 4), complex(-3, -4), complex(3, -4), complex(1e-9, -7), complex(-1e6, 1e-3)} {
+		got, abs := csqrt(z)
+		if want := cmplx.Sqrt(z); cmplx.Abs(got-want) > 1e-14*(1+cmplx.Abs(want)) {
+			t.Errorf("csqrt(%v) = %v, cmplx.Sqrt %v", z, got, want)
+		}
+		if math.Abs(abs-cmplx.Abs(z)) > 1e-14*cmplx.Abs(z) {
+			t.Errorf("|%v| = %v, want %v", z, abs, cmplx.Abs(z))
+		}
+	}
+}
