@@ -69,8 +69,8 @@ type column struct {
 	nSlabs int
 	// nRejects counts retried slab attempts.
 	nRejects int
-	gNorm  float64
-	hasFld bool
+	gNorm    float64
+	hasFld   bool
 }
 
 // newColumn returns a column integrator for p; phase is g·R of p.Field
