@@ -128,7 +128,7 @@ func TestConventionDeviationSign(t *testing.T) {
 			t.Errorf("%s: s = %g, want s > 0", diffr, st.SPerNm)
 		}
 		c := dislocationCase{b: "1/2[1 0 1]", line: vec3{0, 1, 0}, g: vec3{2, 0, 0}, diffr: `"model": "kinematical", ` + diffr, useDF: true}
-		d, con, _, _ := renderDislocation(t, c)
+		d, con, _ := renderDislocation(t, c)
 		peak := 0
 		for k := range con {
 			if con[k] > con[peak] {

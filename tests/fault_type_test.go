@@ -3,6 +3,7 @@ package tests
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -34,7 +35,7 @@ const (
 // 0.05–0.4 ξ_g below the entrance surface (T) or above the exit surface
 // (B): the first fringe of a fault with |α| = 2π/3 (its first extremum
 // is at about 0.2 ξ_g).
-func outerFringes(t *testing.T, g, beam vec3, shift string) (bfT, bfB, dfT, dfB, xT float64) {
+func outerFringes(t *testing.T, g, beam vec3, shift string) (bfT, bfB, dfT, dfB, xT float64, reading string) {
 	t.Helper()
 	text := `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
 	  "diffraction": {"g": ` + g.json() + `, "beam": ` + beam.json() + `, "w": 0},
@@ -68,7 +69,7 @@ func outerFringes(t *testing.T, g, beam vec3, shift string) (bfT, bfB, dfT, dfB,
 	if nT < 5 || nB < 5 {
 		t.Fatalf("only %g and %g columns in the outer-fringe windows", nT, nB)
 	}
-	return bfT / nT, bfB / nB, dfT / nT, dfB / nB, xT
+	return bfT / nT, bfB / nB, dfT / nT, dfB / nB, xT, st.ReadingLines()[0]
 }
 
 // sign returns +1 for a bright fringe (above the perfect crystal), −1 for
@@ -133,7 +134,7 @@ func TestFaultTypeFromOuterFringes(t *testing.T) {
 				intrinsic bool
 			}{{"intrinsic", intrinsic111, true}, {"extrinsic", extrinsic111, false}} {
 				name := fmt.Sprintf("%s g=%v %s", f.family, g, kind.name)
-				bfT, bfB, dfT, dfB, xT := outerFringes(t, g, f.beam, kind.shift)
+				bfT, bfB, dfT, dfB, xT, reading := outerFringes(t, g, f.beam, kind.shift)
 				t.Logf("%s: BF top %+.3f bottom %+.3f, DF top %+.3f bottom %+.3f, top end at x = %.0f nm", name, bfT, bfB, dfT, dfB, xT)
 				sBT, sBB, sDT, sDB := fringeSign(bfT), fringeSign(bfB), fringeSign(dfT), fringeSign(dfB)
 				if sBT == 0 || sBB == 0 || sDT == 0 || sDB == 0 {
@@ -158,6 +159,12 @@ func TestFaultTypeFromOuterFringes(t *testing.T) {
 				}
 				towards := xBright > 0
 				wantIntrinsic := towards != f.typeA
+				// The program's own reading of the fault must agree.
+				kindWord := map[bool]string{true: "intrinsic", false: "extrinsic"}[kind.intrinsic]
+				if !strings.Contains(reading, kindWord+" (R =") || !strings.HasSuffix(reading, "reads as "+kindWord) ||
+					!strings.Contains(reading, map[bool]string{true: "g points towards", false: "g points away from"}[towards]) {
+					t.Errorf("%s: the program reads %q", name, reading)
+				}
 				if wantIntrinsic != kind.intrinsic {
 					t.Errorf("%s: g points %s the bright dark-field outer fringe, which the rule reads as %s",
 						name, map[bool]string{true: "towards", false: "away from"}[towards],

@@ -3,6 +3,7 @@ package tests
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -26,7 +27,7 @@ type dislocationCase struct {
 // from the line's projection measured along ŝ = u × z (u the line sense in
 // the image frame), and the contrast (intensity minus the perfect
 // crystal's) of the chosen beam.
-func renderDislocation(t *testing.T, c dislocationCase) (d, con []float64, nx, ny int) {
+func renderDislocation(t *testing.T, c dislocationCase) (d, con []float64, reading string) {
 	t.Helper()
 	beam := vec3{0, 0, 1}
 	text := `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
@@ -53,14 +54,14 @@ func renderDislocation(t *testing.T, c dislocationCase) (d, con []float64, nx, n
 	fr := newImageFrame(c.g, beam)
 	u := fr.in(c.line.unit())
 	side := u.cross(vec3{0, 0, 1}).unit()
-	nx, ny = im.Grid.NX, im.Grid.NY
+	nx, ny := im.Grid.NX, im.Grid.NY
 	d = make([]float64, nx*ny)
 	for j := 0; j < ny; j++ {
 		for i := 0; i < nx; i++ {
 			d[j*nx+i] = pixelX(im, i)*side[0] + pixelY(im, j)*side[1]
 		}
 	}
-	return d, con, nx, ny
+	return d, con, st.ReadingLines()[0]
 }
 
 // The image of a straight dislocation lies to one side of its core: on the
@@ -120,7 +121,7 @@ func TestDislocationImageSide(t *testing.T) {
 						}
 						c := dislocationCase{b: b, line: dl.line, g: g, diffr: fmt.Sprintf(model.diffr, ss*model.w), useDF: model.df}
 						name := fmt.Sprintf("%s %s g=%v s%s b=%s", dl.name, model.name, g, map[float64]string{1: ">0", -1: "<0"}[ss], b)
-						d, con, _, _ := renderDislocation(t, c)
+						d, con, reading := renderDislocation(t, c)
 						peak := 0
 						for n := range d {
 							if math.Abs(con[n]) > math.Abs(con[peak]) {
@@ -131,6 +132,12 @@ func TestDislocationImageSide(t *testing.T) {
 						gb := g.dot(bv)
 						want := math.Copysign(1, gb*ss)
 						t.Logf("%s: g·b = %g, strongest contrast %+.3f at d = %+.2f nm", name, gb, con[peak], mean)
+						// The program's reading names the same side: for a
+						// line along y (edge) u × z is ±x; for the screw along
+						// [1 1 0] it is the lower right or upper left.
+						if side := pictureDirectionOf(sideVec(c, want)); !strings.Contains(reading, "image on the "+side+" side") {
+							t.Errorf("%s: the program reads %q; the image lies %s", name, reading, side)
+						}
 						if mean*want < 0.4 {
 							t.Errorf("%s: strongest contrast at d = %+.2f nm along u × z; the rule puts it on the %s side", name, mean, map[float64]string{1: "+", -1: "−"}[want])
 						}

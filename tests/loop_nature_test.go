@@ -3,6 +3,7 @@ package tests
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -25,7 +26,7 @@ func burgersText(b vec3) string { return fmt.Sprintf("1/2[%g %g %g]", 2*b[0], 2*
 // along x (the row y = 0) or along y (the column x = 0), 240 pixels over
 // 48 nm, in the middle of a 4 ξ_g foil, and returns the positions (nm) and
 // the contrast of the bright field (two-beam) or dark field (kinematical).
-func loopProfile(t *testing.T, c loopCase, alongY bool) (pos, con []float64) {
+func loopProfile(t *testing.T, c loopCase, alongY bool) (pos, con []float64, reading string) {
 	t.Helper()
 	model, beam := "", 0
 	if c.kinematical {
@@ -53,7 +54,7 @@ func loopProfile(t *testing.T, c loopCase, alongY bool) (pos, con []float64) {
 			pos[k] = pixelX(im, k)
 		}
 	}
-	return pos, con
+	return pos, con, st.ReadingLines()[0]
 }
 
 // The image of a dislocation loop lies outside its projected line for one
@@ -132,7 +133,10 @@ func TestLoopInsideOutside(t *testing.T) {
 					y   bool
 					rim float64
 				}{{false, r / math.Sqrt2}} {
-					pos, con := loopProfile(t, c, along.y)
+					pos, con, reading := loopProfile(t, c, along.y)
+					if want := map[bool]string{true: "outside", false: "inside"}[wantOutside] + " contrast expected"; !strings.Contains(reading, want) || !strings.Contains(reading, def.nature) {
+						t.Errorf("%s: the program reads %q; want %s, %s", name, reading, def.nature, want)
+					}
 					for _, side := range []float64{1, -1} {
 						peak := -1
 						for k := range pos {

@@ -2,6 +2,7 @@ package tests
 
 import (
 	"fmt"
+	"strings"
 	"testing"
 )
 
@@ -12,7 +13,7 @@ import (
 // centre: on the side g points to (plus) and the other (minus). defect is
 // the JSON of the defect with %[1]g standing for its depth; thick is the
 // foil thickness in units of ξ_g, depth(ξ) the defect's depth.
-func lobes(t *testing.T, g vec3, defect string, thick float64, depth func(xi float64) float64) (bfPlus, bfMinus, dfPlus, dfMinus, xi float64) {
+func lobes(t *testing.T, g vec3, defect string, thick float64, depth func(xi float64) float64) (bfPlus, bfMinus, dfPlus, dfMinus, xi float64, reading string) {
 	t.Helper()
 	text := `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
 	  "diffraction": {"g": ` + g.json() + `, "beam": [0, 0, 1], "w": 0},
@@ -37,7 +38,7 @@ func lobes(t *testing.T, g vec3, defect string, thick float64, depth func(xi flo
 			nm++
 		}
 	}
-	return bfPlus / np, bfMinus / nm, dfPlus / np, dfMinus / nm, xi
+	return bfPlus / np, bfMinus / nm, dfPlus / np, dfMinus / nm, xi, st.ReadingLines()[0]
 }
 
 // A coherent spherical inclusion close to a foil surface shows a
@@ -79,7 +80,7 @@ func TestInclusionMisfitSignFromLobes(t *testing.T) {
 					depth = func(xi float64) float64 { return 5.5*xi - 0.12*xi }
 				}
 				defect := fmt.Sprintf(`{"type": "inclusion", "at_nm": [0, 0, %%[1]g], "radius_nm": 3, "misfit": %g}`, misfit)
-				bfP, bfM, dfP, dfM, _ := lobes(t, g, defect, 5.5, depth)
+				bfP, bfM, dfP, dfM, _, reading := lobes(t, g, defect, 5.5, depth)
 				where := map[bool]string{true: "near the entrance surface", false: "near the exit surface"}[top]
 				name := fmt.Sprintf("misfit %+g %s g=%v", misfit, where, g)
 				t.Logf("%s: BF +g side %+.3f, −g side %+.3f; DF +g side %+.3f, −g side %+.3f", name, bfP, bfM, dfP, dfM)
@@ -98,6 +99,15 @@ func TestInclusionMisfitSignFromLobes(t *testing.T) {
 						t.Errorf("%s: %s lobes %+.3f (+g side) and %+.3f (−g side); the rule makes the +g lobe %s and the other %s",
 							name, beam, plus, minus, map[bool]string{true: "bright", false: "dark"}[want > 0], map[bool]string{true: "dark", false: "bright"}[want > 0])
 					}
+				}
+				// The program's reading says the same.
+				nature := map[bool]string{true: "(expanding)", false: "(contracting)"}[misfit > 0]
+				lobe := map[bool]string{true: "is dark in bright and dark field", false: "is dark in dark field and bright in bright field"}[top]
+				if misfit < 0 {
+					lobe = map[bool]string{true: "is bright in bright and dark field", false: "is bright in dark field and dark in bright field"}[top]
+				}
+				if !strings.Contains(reading, nature) || !strings.Contains(reading, lobe) {
+					t.Errorf("%s: the program reads %q; want %s and the +g lobe that %s", name, reading, nature, lobe)
 				}
 				check("bright-field", bfP, bfM, wantBF)
 				check("dark-field", dfP, dfM, wantDF)

@@ -78,3 +78,18 @@ func pixelY(im *sim.Image, j int) float64 {
 	g := im.Grid
 	return (float64(j) + 0.5 - float64(g.NY)/2) * g.HeightNm / float64(g.NY)
 }
+
+// sideVec is the direction, in the image frame, on which the rule puts the
+// image of the dislocation of c: sign·(u × z).
+func sideVec(c dislocationCase, sign float64) vec3 {
+	u := newImageFrame(c.g, vec3{0, 0, 1}).in(c.line.unit())
+	return u.cross(vec3{0, 0, 1}).scale(sign)
+}
+
+// pictureDirectionOf names a direction in the picture (x right, y down) in
+// the eight words the program uses.
+func pictureDirectionOf(v vec3) string {
+	a := math.Atan2(-v[1], v[0]) * 180 / math.Pi
+	names := []string{"right", "upper right", "upper", "upper left", "left", "lower left", "lower", "lower right"}
+	return names[int(math.Floor((a+22.5)/45+8))%8]
+}

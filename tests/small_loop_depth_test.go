@@ -2,6 +2,7 @@ package tests
 
 import (
 	"fmt"
+	"strings"
 	"testing"
 )
 
@@ -53,12 +54,15 @@ func TestSmallLoopLobesReverseWithDepthAndNature(t *testing.T) {
 			}
 			for _, l := range layers {
 				defect := `{"type": "loop", "at_nm": [0, 0, %[1]g], "normal": ` + n.json() + `, "b": "` + burgersText(b) + `", "radius_nm": 2}`
-				_, _, dfP, dfM, _ := lobes(t, vec3{2, 0, 0}, defect, 5.5, func(xi float64) float64 { return l.depth * xi })
+				_, _, dfP, dfM, _, reading := lobes(t, vec3{2, 0, 0}, defect, 5.5, func(xi float64) float64 { return l.depth * xi })
 				name := fmt.Sprintf("%s loop n=%v b=%s in %s (%.2f ξ_g)", nature, n, burgersText(b), l.name, l.depth)
 				t.Logf("%s: DF +g side %+.3f, −g side %+.3f", name, dfP, dfM)
 				want := 1.0 // sign of the +g lobe: bright when l points along g
 				if l.vacancyAlongG != (nature == "vacancy") {
 					want = -1
+				}
+				if w := fmt.Sprintf("(layer %s): in dark field near s = 0, l (black → white) %s g", l.name, map[bool]string{true: "along", false: "against"}[want > 0]); !strings.Contains(reading, w) || !strings.Contains(reading, nature) {
+					t.Errorf("%s: the program reads %q; want %s … %s", name, reading, nature, w)
 				}
 				if dfP*want < 0.01 || dfM*want > -0.01 {
 					t.Errorf("%s: dark-field lobes %+.3f (+g side) and %+.3f (−g side); the rule puts l %s g",

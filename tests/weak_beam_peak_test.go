@@ -51,7 +51,7 @@ func TestWeakBeamPeakWhereEffectiveSIsZero(t *testing.T) {
 			const nt = 16
 			for k := 0; k < nt; k++ {
 				c.thickNm = 3*st.XiGNm + float64(k)*2/seff/nt
-				dk, ck, _, _ := renderDislocation(t, c)
+				dk, ck, _ := renderDislocation(t, c)
 				if con == nil {
 					d, con = dk, make([]float64, len(ck))
 				}
