@@ -91,6 +91,19 @@ type Options struct {
 	Scale int
 	// Caption draws the conditions under the figure.
 	Caption bool
+	// Readings adds to the caption the reading of every defect under the
+	// figure's g and s (scene.Setup.Readings): the long caption.
+	Readings bool
+}
+
+// captionLines returns the caption of a figure: the conditions, and with
+// o.Readings the reading of every defect.
+func captionLines(st *scene.Setup, o Options) figure.Caption {
+	c := Caption(st)
+	if o.Readings {
+		c.Lines = append(c.Lines, st.ReadingLines()...)
+	}
+	return c
 }
 
 // DefaultOptions are those of `faultline render`: bf.png and df.png use
@@ -120,7 +133,7 @@ func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
 	if err != nil {
 		return nil, err
 	}
-	c := Caption(st)
+	c := captionLines(st, o)
 	c.Lines = append(c.Lines, MappingNote(o.FigureMapping))
 	if plan.down > 1 {
 		c.Lines = append(c.Lines, fmt.Sprintf("panels reduced %d× (box average); bf.tiff and df.tiff hold every pixel", plan.down))

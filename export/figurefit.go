@@ -28,7 +28,7 @@ func planFigure(st *scene.Setup, g sim.Grid, o Options) (figurePlan, error) {
 	if err != nil {
 		return figurePlan{}, &scene.FieldError{Path: "image.pixels", Msg: err.Error()}
 	}
-	c := Caption(st)
+	c := captionLines(st, o)
 	c.Lines = append(c.Lines, MappingNote(o.FigureMapping), "panels reduced 8× (box average)")
 	var last error
 	for down := 1; down <= maxFigureDown; down++ {

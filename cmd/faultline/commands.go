@@ -24,14 +24,21 @@ var errHelp = errors.New("help shown")
 
 // command usages, printed by COMMAND --help (on stdout, exit 0).
 var commandUsage = map[string]string{
-	"render": `usage: faultline render SCENE -o DIR
+	"render": `usage: faultline render SCENE -o DIR [--caption short|long]
 
 Simulates SCENE and writes into DIR (created with its missing parents):
 bf.png, df.png (8-bit, grey = 255·I), figure.png (the labelled pair),
 bf.tiff, df.tiff (32-bit float, fraction of the incident beam). The five
 files are written as one set: a failure leaves DIR as it was.
 
+On stderr, after any notes, one "reading:" line per defect: what a
+microscopist would read from its image under the scene's g and s (fault
+kind and outer fringes, side of a dislocation's image, a loop's nature and
+inside–outside contrast, a precipitate's misfit sign).
+
   -o DIR   the output directory (required)
+  --caption short|long  short (default): the conditions under the figure;
+           long: also the reading of every defect
   --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
 `,
 	"profile": `usage: faultline profile SCENE [--y-nm Y]
@@ -67,6 +74,7 @@ func newFlags(name string) *flag.FlagSet {
 func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("render")
 	out := fs.String("o", "", "output directory")
+	caption := fs.String("caption", "short", "figure caption: short (the conditions) or long (also the reading of every defect)")
 	set := setFlag(fs)
 	path, err := parse(fs, args, stdout)
 	if err != nil {
@@ -74,6 +82,9 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	}
 	if *out == "" {
 		return usageError{"render: give the output directory with -o DIR"}
+	}
+	if *caption != "short" && *caption != "long" {
+		return usageError{fmt.Sprintf("render: --caption %q: use short or long", *caption)}
 	}
 	if err := checkOutputDir(*out); err != nil {
 		return err
@@ -83,6 +94,7 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 		return err
 	}
 	o := export.DefaultOptions()
+	o.Readings = *caption == "long"
 	// A figure that cannot be drawn is refused before the render.
 	if err := export.CheckFigure(st, o); err != nil {
 		return err
@@ -104,6 +116,10 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	// a failure is the one line on stderr.
 	for _, n := range st.Notes {
 		fmt.Fprintln(stderr, "note: "+n)
+	}
+	// What a microscopist would read from each defect's image.
+	for _, r := range st.ReadingLines() {
+		fmt.Fprintln(stderr, "reading: "+r)
 	}
 	if isTerminal(stderr) {
 		g := st.Problem.Grid
