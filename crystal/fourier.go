@@ -43,8 +43,14 @@ func (c *Crystal) PotentialVolts(hkl [3]float64) complex128 {
 // The absorptive part by a constant ratio is the phenomenological model of
 // anomalous absorption (Hashimoto, Howie & Whelan 1962; r ≈ 0.1 is common
 // practice); it follows the phase of U_g, so for a centrosymmetric crystal
-// with the origin at the centre both parts are real. The same ratio is
-// applied to g = 0, giving the mean absorption U'_0 = r U_0.
+// with the origin at the centre both parts are real.
+//
+// For g = 0 only the elastic U_0 is returned (its absorptive part is 0).
+// The mean absorption is not r U_0: Faultline has one convention for every
+// model, the two-beam one, ξ'_0 = ξ'_g of the imaged g (U'_0 = U'_g, so the
+// transmitted and diffracted beams are damped alike; Hirsch et al. 1965,
+// ch. 4), which only the caller that knows the imaged g can apply (package
+// scene does, as Setup.Xi0AbsNm).
 func (c *Crystal) Fourier(hkl [3]float64, kv, absorptionRatio float64) (complex128, error) {
 	if !(absorptionRatio >= 0) || math.IsInf(absorptionRatio, 0) {
 		return 0, fmt.Errorf("absorption ratio %g must be finite and non-negative", absorptionRatio)
@@ -52,6 +58,9 @@ func (c *Crystal) Fourier(hkl [3]float64, kv, absorptionRatio float64) (complex1
 	u, err := c.FourierCoefficient(hkl, kv)
 	if err != nil {
 		return 0, err
+	}
+	if hkl == [3]float64{} {
+		return u, nil
 	}
 	return u * complex(1, absorptionRatio), nil
 }

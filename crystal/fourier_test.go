@@ -49,6 +49,12 @@ func TestFourierExtinctionRelation(t *testing.T) {
 	if _, err := cu.Fourier([3]float64{1, 1, 1}, 0, 0.1); err == nil {
 		t.Error("0 kV accepted")
 	}
+	// g = 0: the elastic U_0 only; the mean absorption follows the imaged
+	// g (the one convention, ξ'_0 = ξ'_g), not r U_0.
+	u0, _ := cu.FourierCoefficient([3]float64{}, 200)
+	if u, err := cu.Fourier([3]float64{}, 200, 0.1); err != nil || u != u0 || imag(u) != 0 {
+		t.Errorf("U(000) = %v, %v; want the elastic %v alone", u, err, u0)
+	}
 }
 
 // TestPotentialVolts: V_g = (h²/(2π m0 e)) F_g / V_c with the conversion

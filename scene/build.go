@@ -38,6 +38,10 @@ type Setup struct {
 	SPerNm       float64 // excitation error of g
 	W            float64 // s ξ_g
 	Absorption   float64 // ξ_g/ξ'_g used (0 for the kinematical model)
+	// XiGAbsNm is the absorption length ξ'_g = ξ_g/ratio of the imaged g
+	// and Xi0AbsNm the mean absorption length ξ'_0, which is ξ'_g in
+	// every model (+Inf with no absorption).
+	XiGAbsNm, Xi0AbsNm float64
 	Model        string
 
 	// Rotation takes crystal Cartesian vectors into the image frame:
@@ -299,6 +303,13 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 	if st.Model == "" {
 		st.Model = DefaultModel
 	}
+	// Mean absorption: ξ'_0 = ξ'_g of the imaged g, the one convention of
+	// every model (see the package documentation).
+	st.XiGAbsNm, st.Xi0AbsNm = math.Inf(1), math.Inf(1)
+	if ratio > 0 && st.Model != "kinematical" {
+		st.XiGAbsNm = st.XiGNm / ratio
+		st.Xi0AbsNm = st.XiGAbsNm
+	}
 	var model sim.Model
 	switch st.Model {
 	case "kinematical":
@@ -306,10 +317,7 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 	case "two-beam":
 		tb := sim.TwoBeam{SPerNm: st.SPerNm, XiGNm: st.XiGNm}
 		if ratio > 0 {
-			// Mean absorption: ξ'_0 = ξ'_g of the imaged g, the one
-			// convention of every model (see the package documentation).
-			tb.XiGAbsNm = st.XiGNm / ratio
-			tb.Xi0AbsNm = tb.XiGAbsNm
+			tb.XiGAbsNm, tb.Xi0AbsNm = st.XiGAbsNm, st.Xi0AbsNm
 		}
 		st.Absorption = ratio
 		model = tb
