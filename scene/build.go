@@ -42,7 +42,7 @@ type Setup struct {
 	// and Xi0AbsNm the mean absorption length ξ'_0, which is ξ'_g in
 	// every model (+Inf with no absorption).
 	XiGAbsNm, Xi0AbsNm float64
-	Model        string
+	Model              string
 
 	// Rotation takes crystal Cartesian vectors into the image frame:
 	// row 0 is x (along g), row 1 is y = z × x, row 2 is z (the beam).
