@@ -13,8 +13,10 @@ GO ?= go
 GUI_PKGS  := gcc pkg-config libgl1-mesa-dev libxcursor-dev libxrandr-dev libxinerama-dev libxi-dev libxxf86vm-dev
 # Tests: a headless X server for the window capture, and the outside
 # references the tests compare with (gemmi's scattering factors, Pillow,
-# numpy, ImageMagick for inspecting captures).
-TEST_PKGS := xvfb xauth python3-gemmi python3-pil python3-numpy imagemagick
+# numpy, ImageMagick for inspecting captures), and Slurm with munge for the
+# one-node cluster the sweep test starts (tests/slurmcluster_test.go; the
+# daemons run as root, as make test does in CI).
+TEST_PKGS := xvfb xauth python3-gemmi python3-pil python3-numpy imagemagick slurm-wlm munge
 
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 

@@ -20,6 +20,7 @@ import (
 	"faultline/match"
 	"faultline/micrograph"
 	"faultline/scene"
+	"faultline/sweep"
 )
 
 // Exit statuses.
@@ -71,6 +72,12 @@ const usage = `usage:
   faultline fit SCENE --micrograph IMG [--nm-per-px P] [--g-angle-deg A]
                 [--kind bf|df] [--defect K] [--blur-nm S] [--json]
                                           fit thickness, s and the defect's depth
+  faultline sweep SWEEP -o DIR [--shard I/N | --shards N] [--workers K] [--force]
+                                          run the jobs of a sweep (or of one shard of it)
+  faultline sweep merge DIR               check a sweep's jobs, write index.csv and a contact sheet
+  faultline sweep slurm SWEEP -o DIR --tasks N [--partition P] [--time HH:MM:SS]
+                        [--cpus-per-task C] [--submit]
+                                          write (and submit) a Slurm job array and its merge job
   faultline COMMAND --help                the options of a command
 
 render, profile and reflections take --set PATH=VALUE (repeatable): a
@@ -113,12 +120,14 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 	case "fit":
 		err = cmdFit(ctx, args[1:], stdout, stderr)
 	case "plan":
-		err = usageError{fmt.Sprintf("%s is not built yet; this version has render, profile, reflections, identify and fit", args[0])}
+		err = usageError{fmt.Sprintf("%s is not built yet; this version has render, profile, reflections, identify, fit and sweep", args[0])}
+	case "sweep":
+		err = cmdSweep(ctx, args[1:], stdout, stderr)
 	case "-h", "--help", "-help", "help":
 		fmt.Fprint(stdout, usage)
 		return exitOK
 	default:
-		err = usageError{fmt.Sprintf("unknown command %s; the commands are render, profile, reflections, identify, fit", cutQuoted(fmt.Sprintf("%q", args[0])))}
+		err = usageError{fmt.Sprintf("unknown command %s; the commands are render, profile, reflections, identify, fit, sweep", cutQuoted(fmt.Sprintf("%q", args[0])))}
 	}
 	if err == nil || errors.Is(err, errHelp) {
 		return exitOK
@@ -132,8 +141,10 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 	var oe outputError
 	switch {
 	case errors.As(err, &ue), errors.As(err, &oe), errors.Is(err, scene.ErrInvalid), errors.Is(err, os.ErrNotExist),
-		errors.Is(err, match.ErrSeries), errors.Is(err, micrograph.ErrInvalid):
+		errors.Is(err, match.ErrSeries), errors.Is(err, micrograph.ErrInvalid), errors.Is(err, sweep.ErrInvalid):
 		return exitBadInput
+	case isJobsFailed(err):
+		return exitJobsFailed
 	}
 	return exitInternal
 }
