@@ -75,7 +75,7 @@ func Caption(st *scene.Setup) figure.Caption {
 		model = fmt.Sprintf("two-beam, ξg/ξ'g = %g", st.Absorption)
 	}
 	lines := []string{
-		fmt.Sprintf("%s   B = [%s]   %s   t = %g nm   %g kV", material, Indices(d.Beam), dev, sc.Foil.ThicknessNm, sc.Microscope.VoltageKV),
+		fmt.Sprintf("%s   B = [%s]   %s   t = %g nm   %g kV", material, Indices(d.Beam), dev, st.Problem.ThicknessNm, st.VoltageKV),
 		fmt.Sprintf("%s   %s", xi, model),
 	}
 	return figure.Caption{G: "g = " + Indices(d.G), Lines: lines}

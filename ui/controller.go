@@ -19,8 +19,8 @@ import (
 
 // Preview settings. Every change is first rendered on a coarse grid over
 // the same field, with the same physics, and with the integrator's phase
-// tolerance loosened from sim.DefaultTolerance (1e-4 cycles) to
-// PreviewTolerance (1e-3 cycles), which keeps the intensities within about
+// tolerance loosened from sim.DefaultTolerance to PreviewTolerance (1e-3
+// cycles), which keeps the intensities within about
 // 1e-3 of the incident beam of the converged ones on the demo scene
 // (measured) at a third of the cost. The grid's longer side starts at
 // startPreviewPixels and then follows the measured cost per column so that
