@@ -140,7 +140,7 @@ func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
 		bf, df = reduce(bf, plan.down), reduce(df, plan.down)
 		px *= float64(plan.down)
 	}
-	return figure.Pair(bf, df, c, figure.Layout{NmPerPx: px, Scale: plan.scale, Caption: o.Caption})
+	return figure.Pair(bf, df, c, figure.Layout{NmPerPx: px, GAngleDeg: st.GAngleDeg, Scale: plan.scale, Caption: o.Caption})
 }
 
 // MappingNote says in words how grey levels relate to intensity.

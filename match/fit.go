@@ -280,7 +280,7 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 		}
 		fr.ErrorMethod = "undetermined: the score is flat along some direction at its maximum"
 	}
-	dx, dy := SpecimenOffset(cell.Shift.DX, cell.Shift.DY, 0, View{NmPerPx: m.Raster.NmPerPx, GAngleDeg: m.GAngleDeg})
+	dx, dy := SpecimenOffset(cell.Shift.DX, cell.Shift.DY, st0.GAngleDeg, View{NmPerPx: m.Raster.NmPerPx, GAngleDeg: m.GAngleDeg})
 	half := m.Raster.NmPerPx / 2
 	fr.ThicknessNm = Estimate{p[0], errs[0]}
 	fr.SPerNm = Estimate{p[1], errs[1]}

@@ -8,48 +8,21 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"gonum.org/v1/gonum/spatial/r3"
-
 	"faultline/scene"
 )
 
-// specimenAngle returns the direction of g, counter-clockwise as displayed
-// from the picture's +x, in a picture whose +x is the crystal direction
-// xAxis and whose beam (into the screen) is beam: how a fixed specimen
-// shows the g of each micrograph of a series.
-func specimenAngle(t *testing.T, base []byte, g, beam, xAxis []float64) float64 {
-	t.Helper()
-	sc, err := scene.Parse(base)
-	if err != nil {
-		t.Fatal(err)
-	}
-	st, err := scene.Build(sc, ".")
-	if err != nil {
-		t.Fatal(err)
-	}
-	cell := st.Crystal.Cell
-	b, _ := cell.DirectionIndices(beam)
-	x, _ := cell.DirectionIndices(xAxis)
-	h, _ := cell.PlaneIndices(g)
-	z := r3.Unit(cell.Direction(b))
-	// The specimen's x axis as seen along this beam: its projection.
-	xs := cell.Direction(x)
-	xs = r3.Unit(r3.Sub(xs, r3.Scale(r3.Dot(xs, z), z)))
-	ys := r3.Cross(z, xs)
-	gc := cell.Reciprocal(h)
-	return math.Atan2(-r3.Dot(gc, ys), r3.Dot(gc, xs)) * 180 / math.Pi
-}
-
 // synthetic makes the micrographs of a series by simulating the true
 // scene for each condition, blurring it and adding shot noise at dose
-// electrons per pixel (Poisson statistics, in their Gaussian limit).
+// electrons per pixel (Poisson statistics, in their Gaussian limit). A
+// micrograph's g angle is the one given, or (angles nil) the scene's own:
+// with image.x_axis, the direction of g on the fixed specimen.
 func synthetic(t *testing.T, base []byte, conds []json.RawMessage, angles []float64, kind Kind, size int, nmPerPx, blurNm, dose float64, seed uint64) []Micrograph {
 	t.Helper()
 	s := &Series{Base: base, Dir: "."}
 	rng := rand.New(rand.NewPCG(seed, 2))
 	var out []Micrograph
 	for i, c := range conds {
-		m := Micrograph{Name: fmt.Sprintf("m%d", i), GAngleDeg: angles[i], Kind: kind, Diffraction: c}
+		m := Micrograph{Name: fmt.Sprintf("m%d", i), Kind: kind, Diffraction: c}
 		sc, err := s.SceneFor(&m)
 		if err != nil {
 			t.Fatal(err)
@@ -58,7 +31,11 @@ func synthetic(t *testing.T, base []byte, conds []json.RawMessage, angles []floa
 		if err != nil {
 			t.Fatal(err)
 		}
-		r, err := Simulate(context.Background(), st, View{W: size, H: size, NmPerPx: nmPerPx, GAngleDeg: angles[i]}, kind, blurNm, 0)
+		m.GAngleDeg = st.GAngleDeg
+		if angles != nil {
+			m.GAngleDeg = angles[i]
+		}
+		r, err := Simulate(context.Background(), st, View{W: size, H: size, NmPerPx: nmPerPx, GAngleDeg: m.GAngleDeg}, kind, blurNm, 0)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -124,14 +101,12 @@ func TestIdentifySyntheticSeries(t *testing.T) {
 			  "diffraction": {"g": %s, "beam": %s, "w": 0.5},
 			  "foil": {"thickness_nm": 90, "normal": %s},
 			  "defects": [{"type": "dislocation", "b": %q, "line": %s, "at_nm": [0, 0, 45], "elasticity": "isotropic"}],
-			  "image": {"width_nm": 100, "height_nm": 100, "pixels": [50, 50]}}`, c.crystal, c.conds[0].g, c.conds[0].beam, c.normal, c.trueB, c.line))
+			  "image": {"width_nm": 100, "height_nm": 100, "pixels": [50, 50], "x_axis": %s}}`, c.crystal, c.conds[0].g, c.conds[0].beam, c.normal, c.trueB, c.line, c.xAxis))
 			var conds []json.RawMessage
-			var angles []float64
 			for _, cd := range c.conds {
 				conds = append(conds, json.RawMessage(fmt.Sprintf(`{"g": %s, "beam": %s, "w": 0.5}`, cd.g, cd.beam)))
-				angles = append(angles, specimenAngle(t, base, vec(t, cd.g), vec(t, cd.beam), vec(t, c.xAxis)))
 			}
-			mics := synthetic(t, base, conds, angles, BrightField, 40, 2, 1.5, 40, 11)
+			mics := synthetic(t, base, conds, nil, BrightField, 40, 2, 1.5, 40, 11)
 			s := &Series{Base: base, Dir: ".", Micrographs: mics, Candidates: burgersCandidates(t, base, c.family, 0), BlurNm: 1.5}
 			ranked, err := Identify(context.Background(), s, Options{})
 			if err != nil {
@@ -157,13 +132,4 @@ func TestIdentifySyntheticSeries(t *testing.T) {
 			}
 		})
 	}
-}
-
-func vec(t *testing.T, s string) []float64 {
-	t.Helper()
-	var v []float64
-	if err := json.Unmarshal([]byte(s), &v); err != nil {
-		t.Fatal(err)
-	}
-	return v
 }

@@ -55,5 +55,5 @@ func Simulate(ctx context.Context, st *scene.Setup, v View, kind Kind, blurNm fl
 
 // SceneGAngleDeg is the direction of g in the scene's own picture,
 // counter-clockwise from +x as displayed: 0 in the default frame, where g
-// points right.
-func SceneGAngleDeg(st *scene.Setup) float64 { return 0 }
+// points right, and the angle image.x_axis gives it otherwise.
+func SceneGAngleDeg(st *scene.Setup) float64 { return st.GAngleDeg }

@@ -44,9 +44,15 @@ type Setup struct {
 	XiGAbsNm, Xi0AbsNm float64
 	Model              string
 
-	// Rotation takes crystal Cartesian vectors into the image frame:
+	// Rotation takes crystal Cartesian vectors into the frame of g:
 	// row 0 is x (along g), row 1 is y = z × x, row 2 is z (the beam).
+	// The defects are built in it.
 	Rotation [3][3]float64
+	// GAngleDeg is the direction of g in the picture, counter-clockwise
+	// from +x as displayed: 0 (g points right) unless image.x_axis fixes
+	// the picture to the specimen, in which case Problem renders the
+	// frame of g turned by this angle (sim.Turn).
+	GAngleDeg float64
 
 	Problem *sim.Problem
 	// Notes records defaults applied and values derived (a dissociation
@@ -122,7 +128,11 @@ type geometry struct {
 	gPerNm   float64
 	rotation [3][3]float64
 	field    defects.Sum
-	spheres  []sphere // cavities, checked against the foil by the last stage
+	// gAngle is the angle of g in the picture (radians, counter-clockwise
+	// as displayed): 0 unless image.x_axis fixes the picture to the
+	// specimen.
+	gAngle  float64
+	spheres []sphere // cavities, checked against the foil by the last stage
 	notes    []string
 }
 
@@ -195,9 +205,9 @@ func (b *Builder) material(c *Crystal, dir string) (*material, error) {
 // material, g, the beam and the defects are unchanged.
 func (b *Builder) geometry(sc *Scene, mat *material) (*geometry, error) {
 	k, err := json.Marshal(struct {
-		G, Beam []float64
-		Defects []Defect
-	}{sc.Diffraction.G, sc.Diffraction.Beam, sc.Defects})
+		G, Beam, XAxis []float64
+		Defects        []Defect
+	}{sc.Diffraction.G, sc.Diffraction.Beam, sc.Image.XAxis, sc.Defects})
 	if err != nil {
 		return nil, fieldErr("defects", "%v", err)
 	}
@@ -224,10 +234,16 @@ func (b *Builder) geometry(sc *Scene, mat *material) (*geometry, error) {
 	z := r3.Unit(bc)
 	y := r3.Cross(z, x)
 	geo.rotation = [3][3]float64{{x.X, x.Y, x.Z}, {y.X, y.Y, y.Z}, {z.X, z.Y, z.Z}}
+	inG := sc // the scene with its positions in the frame of g
+	if len(sc.Image.XAxis) > 0 {
+		if inG, err = geo.specimenFrame(sc, cell); err != nil {
+			return nil, err
+		}
+	}
 	if len(sc.Defects) > 0 {
 		// The defects are built against a Setup that holds only what
 		// they need: the crystal, its Stroh cache and the frame.
-		st := &Setup{Scene: sc, Crystal: mat.crystal, G: geo.g, Beam: geo.beam, Rotation: geo.rotation, stroh: mat.stroh}
+		st := &Setup{Scene: inG, Crystal: mat.crystal, G: geo.g, Beam: geo.beam, Rotation: geo.rotation, stroh: mat.stroh}
 		if geo.field, err = st.buildDefects(); err != nil {
 			return nil, err
 		}
@@ -236,6 +252,37 @@ func (b *Builder) geometry(sc *Scene, mat *material) (*geometry, error) {
 	b.counts.Geometry++
 	b.geo = geo
 	return geo, nil
+}
+
+// specimenFrame sets the angle of g in a picture fixed to the specimen by
+// image.x_axis and returns a copy of sc with every defect position turned
+// from that frame into the frame of g (x along g), where the defects are
+// built. With φ the angle of g counter-clockwise from the picture's +x as
+// displayed, the specimen point (X, Y) lies at x = X cos φ − Y sin φ,
+// y = X sin φ + Y cos φ in the frame of g (the turn of sim.Turn).
+func (geo *geometry) specimenFrame(sc *Scene, cell crystal.Cell) (*Scene, error) {
+	uvw, err := cell.DirectionIndices(sc.Image.XAxis)
+	if err != nil {
+		return nil, wrapErr("image.x_axis", err)
+	}
+	st := &Setup{Rotation: geo.rotation}
+	xs := st.rotate(cell.Direction(uvw))
+	if n := r3.Norm(xs); math.Abs(xs.Z) > 1e-6*n {
+		return nil, fieldErr("image.x_axis", "%s is not perpendicular to the beam %s (it is %.2f° out of the picture's plane)", fmtIdx(sc.Image.XAxis), fmtIdx(sc.Diffraction.Beam), math.Asin(math.Min(1, math.Abs(xs.Z)/n))*180/math.Pi)
+	}
+	phi := math.Atan2(xs.Y, xs.X)
+	geo.gAngle = phi
+	c, s := math.Cos(phi), math.Sin(phi)
+	out := *sc
+	out.Defects = make([]Defect, len(sc.Defects))
+	for i, d := range sc.Defects {
+		if len(d.AtNm) == 3 {
+			X, Y := d.AtNm[0], d.AtNm[1]
+			d.AtNm = []float64{X*c - Y*s, X*s + Y*c, d.AtNm[2]}
+		}
+		out.Defects[i] = d
+	}
+	return &out, nil
 }
 
 // conditions is the last stage: everything that depends on the voltage,
@@ -358,6 +405,12 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 	}
 	if len(geo.field) > 0 {
 		st.Problem.Field = geo.field
+	}
+	if len(sc.Image.XAxis) > 0 {
+		// The picture is fixed to the specimen: its raster is turned so
+		// that g points at its angle.
+		st.GAngleDeg = geo.gAngle * 180 / math.Pi
+		st.Problem = sim.Turn(st.Problem, geo.gAngle, st.Problem.Grid)
 	}
 	if err := st.Problem.Validate(); err != nil {
 		// Everything the problem holds was checked above except what the

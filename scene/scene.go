@@ -132,4 +132,9 @@ type Image struct {
 	HeightNm float64  `json:"height_nm"`
 	Pixels   []int    `json:"pixels"`
 	BlurNm   *float64 `json:"blur_nm,omitempty"`
+	// XAxis fixes the picture to the specimen: a crystal direction [uvw]
+	// perpendicular to the beam that points right in the picture. Positions
+	// (at_nm) are then in that frame and g is drawn at its angle, so a g·b
+	// series keeps its defects in place. Without it x lies along g.
+	XAxis []float64 `json:"x_axis,omitempty"`
 }

@@ -204,6 +204,11 @@ func (im *Image) validate(path string) error {
 	if math.Abs(px-py) > 1e-6*math.Max(px, py) {
 		return fieldErr(path+".pixels", "%v over %g × %g nm gives pixels %.4g nm wide and %.4g nm high; pixels must be square", im.Pixels, im.WidthNm, im.HeightNm, px, py)
 	}
+	if len(im.XAxis) > 0 {
+		if err := indices(path+".x_axis", im.XAxis); err != nil {
+			return err
+		}
+	}
 	if im.BlurNm != nil && !(*im.BlurNm >= 0 && finite(*im.BlurNm)) {
 		return fieldErr(path+".blur_nm", "%g nm: must not be negative", *im.BlurNm)
 	}
