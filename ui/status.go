@@ -3,6 +3,7 @@ package ui
 import (
 	"errors"
 	"fmt"
+	"strings"
 	"time"
 
 	"fyne.io/fyne/v2"
@@ -13,11 +14,15 @@ import (
 )
 
 // statusLine is the bottom line of the window: render progress, how long
-// the last renders took, and the error that stops the render, if any.
+// the last renders took, and the error that stops the render, if any;
+// above it, the reading a microscopist would make of every defect under
+// the current g and s (scene.Setup.ReadingLines, the same text `faultline
+// render` prints).
 type statusLine struct {
 	Progress *widget.ProgressBar
 	Timing   *widget.Label
 	Message  *widget.Label
+	Readings *widget.Label
 
 	preview time.Duration // latency of the last preview
 }
@@ -29,7 +34,9 @@ const (
 
 // statusPanel returns the status line.
 func statusPanel(ws *Workspace) fyne.CanvasObject {
-	s := &statusLine{Progress: widget.NewProgressBar(), Timing: widget.NewLabel(startText), Message: widget.NewLabel("")}
+	s := &statusLine{Progress: widget.NewProgressBar(), Timing: widget.NewLabel(startText), Message: widget.NewLabel(""), Readings: widget.NewLabel("")}
+	s.Readings.Wrapping = fyne.TextWrapWord
+	s.Readings.Hide()
 	ws.status = s
 	s.Progress.Min, s.Progress.Max = 0, 1
 	s.Progress.TextFormatter = func() string { return fmt.Sprintf("%.0f %%", 100*s.Progress.Value) }
@@ -47,7 +54,16 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 			s.Message.SetText("Not rendered: " + msg)
 			s.Progress.SetValue(0)
 			s.Timing.SetText(staleText)
+			s.Readings.SetText("")
+			s.Readings.Hide()
 			return
+		}
+		if lines := st.ReadingLines(); len(lines) > 0 {
+			s.Readings.SetText(strings.Join(lines, "\n"))
+			s.Readings.Show()
+		} else {
+			s.Readings.SetText("")
+			s.Readings.Hide()
 		}
 		s.Message.Importance = widget.MediumImportance
 		s.Message.SetText("")
@@ -77,7 +93,8 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 		s.Message.SetText("Render failed: " + err.Error())
 	})
 	bar := container.NewGridWrap(fyne.NewSize(160, s.Progress.MinSize().Height), s.Progress)
-	return container.NewBorder(nil, nil, container.NewHBox(bar, s.Timing), nil, s.Message)
+	line := container.NewBorder(nil, nil, container.NewHBox(bar, s.Timing), nil, s.Message)
+	return container.NewVBox(s.Readings, line)
 }
 
 // ms writes a duration in milliseconds, or seconds from 10 s on.
