@@ -24,7 +24,7 @@ var errHelp = errors.New("help shown")
 
 // command usages, printed by COMMAND --help (on stdout, exit 0).
 var commandUsage = map[string]string{
-	"render": `usage: faultline render SCENE -o DIR [--caption short|long]
+	"render": `usage: faultline render SCENE -o DIR [--caption short|long] [--tolerance CYCLES]
 
 Simulates SCENE and writes into DIR (created with its missing parents):
 bf.png, df.png (8-bit, grey = 255·I), figure.png (the labelled pair),
@@ -40,6 +40,10 @@ inside–outside contrast, a precipitate's misfit sign).
   --caption short|long  short (default): the conditions under the figure;
            long: also the reading of every defect
   --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
+  --tolerance CYCLES  step-control tolerance of the column integrator, in
+           cycles of g·R (default 5e-05: every pixel within 1e-4 of the
+           incident beam of a converged render; smaller is slower and
+           closer to converged, at most 0.01)
 `,
 	"profile": `usage: faultline profile SCENE [--y-nm Y]
        faultline profile SCENE --from X,Y --to X,Y
@@ -65,6 +69,10 @@ crystal and the diffraction conditions only (not the defects).
 `,
 }
 
+// maxTolerance is the loosest step-control tolerance render accepts, in
+// cycles: ten times the window's preview tolerance, whose error is measured.
+const maxTolerance = 0.01
+
 func newFlags(name string) *flag.FlagSet {
 	fs := flag.NewFlagSet(name, flag.ContinueOnError)
 	fs.SetOutput(io.Discard)
@@ -76,6 +84,7 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	out := fs.String("o", "", "output directory")
 	caption := fs.String("caption", "short", "figure caption: short (the conditions) or long (also the reading of every defect)")
 	set := setFlag(fs)
+	tol := fs.Float64("tolerance", sim.DefaultTolerance, "step-control tolerance, cycles")
 	path, err := parse(fs, args, stdout)
 	if err != nil {
 		return err
@@ -86,6 +95,9 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if *caption != "short" && *caption != "long" {
 		return usageError{fmt.Sprintf("render: --caption %q: use short or long", *caption)}
 	}
+	if !(*tol > 0 && *tol <= maxTolerance) {
+		return usageError{fmt.Sprintf("render: --tolerance %g: must be positive and at most %g cycles", *tol, maxTolerance)}
+	}
 	if err := checkOutputDir(*out); err != nil {
 		return err
 	}
@@ -93,6 +105,7 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if err != nil {
 		return err
 	}
+	st.Problem.Tolerance = *tol
 	o := export.DefaultOptions()
 	o.Readings = *caption == "long"
 	// A figure that cannot be drawn is refused before the render.

@@ -405,3 +405,20 @@ func snapshot(t *testing.T, dir string) string {
 	}
 	return strings.Join(out, " ")
 }
+
+// TestToleranceFlag: --tolerance takes a positive number of cycles up to
+// 0.01; anything else is one error line naming the flag, exit 2.
+func TestToleranceFlag(t *testing.T) {
+	sc := writeFile(t, "s.json", sceneText(8, 8, ""))
+	for _, v := range []string{"0", "-1e-5", "0.5", "NaN", "abc"} {
+		args := []string{"render", sc, "-o", t.TempDir(), "--tolerance", v}
+		_, errOut, code := runCLI(args...)
+		line := oneErrorLine(t, args, errOut)
+		if code != exitBadInput || !strings.Contains(line, "tolerance") {
+			t.Errorf("--tolerance %s: exit %d, %q; want 2 and a line naming --tolerance", v, code, line)
+		}
+	}
+	if _, errOut, code := runCLI("render", sc, "-o", t.TempDir(), "--tolerance", "1e-7"); code != exitOK {
+		t.Errorf("--tolerance 1e-7: exit %d: %s", code, errOut)
+	}
+}
