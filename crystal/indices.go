@@ -220,10 +220,10 @@ func (c Cell) PlaneIndices(v []float64) ([3]float64, error) {
 		return [3]float64{v[0], v[1], v[2]}, nil
 	case 4:
 		if !c.IsHexagonal() {
-			return [3]float64{}, fmt.Errorf("four-index plane (%s) needs a hexagonal cell (a = b, γ = 120°)", joinIdx(v))
+			return [3]float64{}, fmt.Errorf("four-index plane (%s) needs a hexagonal cell (a = b, γ = 120°)", FormatIndices(v))
 		}
 		if math.Abs(v[2]+v[0]+v[1]) > fourIndexTol {
-			return [3]float64{}, fmt.Errorf("four-index plane (%s): third index i = %g must equal −(h+k) = %g", joinIdx(v), v[2], -(v[0]+v[1])+0)
+			return [3]float64{}, fmt.Errorf("four-index plane (%s): third index i = %g must equal −(h+k) = %g", FormatIndices(v), v[2], -(v[0]+v[1])+0)
 		}
 		return [3]float64{v[0], v[1], v[3]}, nil
 	}
@@ -239,10 +239,10 @@ func (c Cell) DirectionIndices(v []float64) ([3]float64, error) {
 		return [3]float64{v[0], v[1], v[2]}, nil
 	case 4:
 		if !c.IsHexagonal() {
-			return [3]float64{}, fmt.Errorf("four-index direction [%s] needs a hexagonal cell (a = b, γ = 120°)", joinIdx(v))
+			return [3]float64{}, fmt.Errorf("four-index direction [%s] needs a hexagonal cell (a = b, γ = 120°)", FormatIndices(v))
 		}
 		if math.Abs(v[2]+v[0]+v[1]) > fourIndexTol {
-			return [3]float64{}, fmt.Errorf("four-index direction [%s]: third index t = %g must equal −(u+v) = %g", joinIdx(v), v[2], -(v[0]+v[1])+0)
+			return [3]float64{}, fmt.Errorf("four-index direction [%s]: third index t = %g must equal −(u+v) = %g", FormatIndices(v), v[2], -(v[0]+v[1])+0)
 		}
 		return [3]float64{v[0] - v[2], v[1] - v[2], v[3]}, nil
 	}
@@ -308,9 +308,17 @@ func bracketName(b rune) string {
 	return "a direction"
 }
 
-func joinIdx(v []float64) string {
+// FormatIndices writes indices as the trade writes them, separated by
+// spaces: "2 0 0", "1 -1 0", "0.5 0.5 0". Each number is the shortest
+// text that reads back as the same float64, so text typed into a field and
+// shown again is unchanged; −0 is written 0. It is the one index formatter
+// of the program: every caption, table and field uses it.
+func FormatIndices(v []float64) string {
 	parts := make([]string, len(v))
 	for i, x := range v {
+		if x == 0 {
+			x = 0 // −0
+		}
 		parts[i] = strconv.FormatFloat(x, 'g', -1, 64)
 	}
 	return strings.Join(parts, " ")
@@ -364,5 +372,5 @@ func formatWithFactor(v []float64, open, cl rune) string {
 		}
 		return fmt.Sprintf("1/%d%s", n, body)
 	}
-	return string(open) + joinIdx(v) + string(cl)
+	return string(open) + FormatIndices(v) + string(cl)
 }

@@ -263,3 +263,34 @@ func TestCheckIndices(t *testing.T) {
 		}
 	}
 }
+
+// FormatIndices reads back exactly through ParseIndices and writes no −0.
+func TestFormatIndicesRoundTrip(t *testing.T) {
+	for _, c := range []struct {
+		v    []float64
+		want string
+	}{
+		{[]float64{2, 0, 0}, "2 0 0"},
+		{[]float64{1, -1, 0}, "1 -1 0"},
+		{[]float64{math.Copysign(0, -1), 1, 1}, "0 1 1"},
+		{[]float64{0.5, 0.25, -0.125}, "0.5 0.25 -0.125"},
+		{[]float64{1, 1, -2, 0}, "1 1 -2 0"},
+		{[]float64{1.0 / 3, 0.1, 2}, "0.3333333333333333 0.1 2"},
+	} {
+		got := FormatIndices(c.v)
+		if got != c.want {
+			t.Errorf("FormatIndices(%v) = %q, want %q", c.v, got, c.want)
+		}
+		ix, err := ParseIndices("[" + got + "]")
+		if err != nil {
+			t.Errorf("%q does not parse: %v", got, err)
+			continue
+		}
+		for i := range c.v {
+			if ix.V[i] != c.v[i] {
+				t.Errorf("%q reads back as %v, want %v", got, ix.V, c.v)
+				break
+			}
+		}
+	}
+}

@@ -7,8 +7,9 @@ import (
 	"image"
 	"io"
 	"math"
-	"strings"
+	"path/filepath"
 
+	"faultline/crystal"
 	"faultline/figure"
 	"faultline/internal/atomicfile"
 	"faultline/scene"
@@ -36,21 +37,9 @@ func Render(ctx context.Context, st *scene.Setup, opt sim.Options) (*sim.Image, 
 	return im, nil
 }
 
-// Indices formats indices as the trade writes them: "2 0 0", "1 -1 0".
-func Indices(v []float64) string {
-	parts := make([]string, len(v))
-	for i, x := range v {
-		parts[i] = trimFloat(x)
-	}
-	return strings.Join(parts, " ")
-}
-
-func trimFloat(x float64) string {
-	if x == math.Trunc(x) && math.Abs(x) < 1e6 {
-		return fmt.Sprintf("%d", int64(x))
-	}
-	return fmt.Sprintf("%.4g", x)
-}
+// Indices formats indices as the trade writes them: "2 0 0", "1 -1 0"
+// (crystal.FormatIndices, for the packages that do not import crystal).
+func Indices(v []float64) string { return crystal.FormatIndices(v) }
 
 // Caption returns the conditions of a render in the words of a figure
 // caption: g, B, the deviation, thickness, voltage and model, so a reader
@@ -60,7 +49,7 @@ func Caption(st *scene.Setup) figure.Caption {
 	d := sc.Diffraction
 	dev := fmt.Sprintf("s = %.4f /nm (w = %.2f)", st.SPerNm, st.W)
 	if d.WeakBeam != nil {
-		dev = fmt.Sprintf("g(%sg): s = %.4f /nm (w = %.2f)", trimFloat(d.WeakBeam.N), st.SPerNm, st.W)
+		dev = fmt.Sprintf("g(%sg): s = %.4f /nm (w = %.2f)", Indices([]float64{d.WeakBeam.N}), st.SPerNm, st.W)
 	}
 	xi := fmt.Sprintf("ξg = %.1f nm", st.XiGNm)
 	if !st.XiGComputed {
@@ -81,12 +70,21 @@ func Caption(st *scene.Setup) figure.Caption {
 	return figure.Caption{G: "g = " + Indices(d.G), Lines: lines}
 }
 
+// Panels of a figure.
+const (
+	PanelsPair = ""   // bright field and dark field side by side
+	PanelsBF   = "bf" // bright field only
+	PanelsDF   = "df" // dark field only
+)
+
 // Options choose the look of exported images.
 type Options struct {
 	// Mapping is the grey scale of bf.png and df.png.
 	Mapping figure.Mapping
 	// FigureMapping is the grey scale of the panels of the figure.
 	FigureMapping figure.Mapping
+	// Panels is PanelsPair (the default), PanelsBF or PanelsDF.
+	Panels string
 	// Scale is the integer upscaling of figure pixels (0: automatic).
 	Scale int
 	// Caption draws the conditions under the figure.
@@ -116,7 +114,9 @@ func DefaultOptions() Options {
 	return Options{FigureMapping: figure.Mapping{Mode: figure.ModeAuto, ClipPercent: 0.5}, Caption: true}
 }
 
-// Figure builds the labelled bright-field/dark-field pair. Images too
+// Figure builds the labelled bright-field/dark-field pair, or one of them
+// as o.Panels asks; the window and the command line both draw their
+// figures here. Images too
 // large for a figure are shown reduced by a box average, and the caption
 // says so; images of a shape no figure can show are an error (see
 // CheckFigure).
@@ -124,6 +124,16 @@ func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
 	plan, err := planFigure(st, im.Grid, o)
 	if err != nil {
 		return nil, err
+	}
+	var single string
+	switch o.Panels {
+	case PanelsPair:
+	case PanelsBF:
+		single = "BF"
+	case PanelsDF:
+		single = "DF"
+	default:
+		return nil, fmt.Errorf("export: Options.Panels: unknown %q (want %q, %q or %q)", o.Panels, PanelsPair, PanelsBF, PanelsDF)
 	}
 	bf, df, err := Grays(im, o.FigureMapping)
 	if err != nil {
@@ -140,7 +150,14 @@ func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
 		bf, df = reduce(bf, plan.down), reduce(df, plan.down)
 		px *= float64(plan.down)
 	}
-	return figure.Pair(bf, df, c, figure.Layout{NmPerPx: px, GAngleDeg: st.GAngleDeg, Scale: plan.scale, Caption: o.Caption})
+	l := figure.Layout{NmPerPx: px, GAngleDeg: st.GAngleDeg, Scale: plan.scale, Caption: o.Caption}
+	switch single {
+	case "BF":
+		return figure.Single(bf, single, c, l)
+	case "DF":
+		return figure.Single(df, single, c, l)
+	}
+	return figure.Pair(bf, df, c, l)
 }
 
 // MappingNote says in words how grey levels relate to intensity.
@@ -180,6 +197,16 @@ const (
 	KeySoftware = "Software"
 )
 
+// The files of a render, named the same by the window and the command
+// line.
+const (
+	FileBFPNG  = "bf.png"
+	FileDFPNG  = "df.png"
+	FileFigure = "figure.png"
+	FileBFTIFF = "bf.tiff"
+	FileDFTIFF = "df.tiff"
+)
+
 // WriteAll writes bf.png, df.png, figure.png, bf.tiff and df.tiff into dir
 // (created with its missing parents). sceneJSON is stored in a text chunk
 // of every PNG so the image carries what made it. Everything is encoded
@@ -197,20 +224,45 @@ func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, s
 	if err != nil {
 		return err
 	}
+	return atomicfile.WriteSet(ctx, dir, append([]atomicfile.File{
+		{Name: FileBFPNG, Encode: func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
+		{Name: FileDFPNG, Encode: func(w io.Writer) error { return figure.EncodePNG(w, df, text) }},
+		{Name: FileFigure, Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }},
+	}, tiffFiles(im)...))
+}
+
+// tiffFiles are bf.tiff and df.tiff of im.
+func tiffFiles(im *sim.Image) []atomicfile.File {
 	g := im.Grid
-	return atomicfile.WriteSet(ctx, dir, []atomicfile.File{
-		{Name: "bf.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
-		{Name: "df.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, df, text) }},
-		{Name: "figure.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }},
-		{Name: "bf.tiff", Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.BF(), g.NX, g.NY) }},
-		{Name: "df.tiff", Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.DF(), g.NX, g.NY) }},
-	})
+	return []atomicfile.File{
+		{Name: FileBFTIFF, Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.BF(), g.NX, g.NY) }},
+		{Name: FileDFTIFF, Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.DF(), g.NX, g.NY) }},
+	}
+}
+
+// TIFFNames are the paths WriteTIFFs writes in dir.
+func TIFFNames(dir string) []string {
+	return []string{filepath.Join(dir, FileBFTIFF), filepath.Join(dir, FileDFTIFF)}
+}
+
+// WriteTIFFs writes the bright and dark field into dir as 32-bit float
+// TIFFs, fractions of the incident beam, under the names the command line
+// gives them (bf.tiff, df.tiff), as one set like WriteAll, and returns
+// their paths.
+func WriteTIFFs(dir string, im *sim.Image) ([]string, error) {
+	if im.BF() == nil || im.DF() == nil {
+		return nil, fmt.Errorf("export: beams %v hold no bright and dark field", im.Beams)
+	}
+	if err := atomicfile.WriteSet(context.Background(), dir, tiffFiles(im)); err != nil {
+		return nil, err
+	}
+	return TIFFNames(dir), nil
 }
 
 // Row returns the index of the pixel row whose centre is nearest y (nm).
 func Row(g sim.Grid, yNm float64) (int, error) {
-	dy := g.HeightNm / float64(g.NY)
-	j := int(math.Floor(yNm/dy + float64(g.NY)/2))
+	_, fj := g.Index(0, yNm)
+	j := int(math.Floor(fj + 0.5))
 	if yNm < -g.HeightNm/2 || yNm > g.HeightNm/2 || math.IsNaN(yNm) {
 		return 0, fmt.Errorf("y = %g nm is outside the image (%g nm high, centred on 0)", yNm, g.HeightNm)
 	}

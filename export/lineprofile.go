@@ -54,8 +54,7 @@ func SampleLine(im *sim.Image, l Line) LineProfile {
 // Interpolate returns a plane of grid g at (x, y) nm, bilinear between
 // pixel centres; beyond the outermost centres it takes the edge value.
 func Interpolate(plane []float64, g sim.Grid, x, y float64) float64 {
-	fi := x/g.WidthNm*float64(g.NX) + float64(g.NX)/2 - 0.5
-	fj := y/g.HeightNm*float64(g.NY) + float64(g.NY)/2 - 0.5
+	fi, fj := g.Index(x, y)
 	fi = math.Max(0, math.Min(fi, float64(g.NX-1)))
 	fj = math.Max(0, math.Min(fj, float64(g.NY-1)))
 	i0, j0 := int(fi), int(fj)

@@ -13,6 +13,14 @@ const (
 	ModeAuto  = "auto"
 )
 
+// ContrastFloor is the smallest intensity range, as a fraction of the
+// incident beam, that a figure stretches or a plot spreads over its axis.
+// A narrower range is taken as no contrast at all: the variations a
+// column integration leaves in a field that should be uniform are rounding
+// noise (order 1e-16), far below it, and a real contrast a microscope can
+// record (a few per cent of the beam) lies far above it.
+const ContrastFloor = 1e-3
+
 // Mapping turns intensities (fractions of the incident beam intensity) into
 // 8-bit grey levels. The zero value is the fixed mapping 0..1 -> 0..255.
 //

@@ -10,7 +10,6 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"strings"
 	"sync"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -522,13 +521,8 @@ func fmtPlane(v []float64) string {
 	return "(" + t[1:len(t)-1] + ")"
 }
 
-func fmtIdx(v []float64) string {
-	parts := make([]string, len(v))
-	for i, x := range v {
-		parts[i] = fmt.Sprintf("%g", x)
-	}
-	return "[" + strings.Join(parts, " ") + "]"
-}
+// fmtIdx writes direction indices as the trade does: [1 -1 0].
+func fmtIdx(v []float64) string { return "[" + crystal.FormatIndices(v) + "]" }
 
 // medium is the elastic description of the crystal in the image frame.
 func (st *Setup) medium() defects.Medium {

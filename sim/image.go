@@ -1,5 +1,7 @@
 package sim
 
+import "math"
+
 // Grid is the raster of columns: NX × NY pixels over WidthNm × HeightNm,
 // centred on the optical axis. Pixel (i, j) is the column at
 // x = (i + 0.5 − NX/2)·WidthNm/NX, y = (j + 0.5 − NY/2)·HeightNm/NY, with x
@@ -17,6 +19,28 @@ func (g Grid) X(i int) float64 {
 // Y returns the y coordinate (nm) of pixel row j.
 func (g Grid) Y(j int) float64 {
 	return (float64(j) + 0.5 - float64(g.NY)/2) * g.HeightNm / float64(g.NY)
+}
+
+// Index returns the continuous pixel coordinates of the point (x, y) nm:
+// the inverse of X and Y, so that the centre of pixel (i, j) is at
+// (fi, fj) = (i, j) and its square spans fi in [i − 0.5, i + 0.5).
+//
+//	fi = x·NX/WidthNm + NX/2 − 0.5,   fj = y·NY/HeightNm + NY/2 − 0.5
+func (g Grid) Index(x, y float64) (fi, fj float64) {
+	fi = x*float64(g.NX)/g.WidthNm + float64(g.NX)/2 - 0.5
+	fj = y*float64(g.NY)/g.HeightNm + float64(g.NY)/2 - 0.5
+	return fi, fj
+}
+
+// PixelAt returns the pixel whose square holds the point (x, y) nm, and
+// false when the point lies outside the field.
+func (g Grid) PixelAt(x, y float64) (i, j int, ok bool) {
+	fi, fj := g.Index(x, y)
+	fi, fj = math.Floor(fi+0.5), math.Floor(fj+0.5)
+	if !(fi >= 0 && fj >= 0 && fi < float64(g.NX) && fj < float64(g.NY)) {
+		return 0, 0, false
+	}
+	return int(fi), int(fj), true
 }
 
 // Image holds the exit-surface intensities of every beam of every column,

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
-	"image"
 	"path/filepath"
 	"strings"
 
@@ -46,26 +45,16 @@ func (ws *Workspace) currentFull() (*scene.Setup, *sim.Image, error) {
 	return r.Setup, r.Image, nil
 }
 
-// BuildFigure draws the figure of a render as the options ask.
-func BuildFigure(st *scene.Setup, im *sim.Image, o FigureOptions) (*image.RGBA, error) {
-	if o.Panels == figPair || o.Panels == "" {
-		return export.Figure(st, im, export.Options{FigureMapping: o.Mapping, Scale: o.Scale, Caption: o.Caption})
+// exportOptions are the export package's options for o.
+func (o FigureOptions) exportOptions() export.Options {
+	e := export.Options{FigureMapping: o.Mapping, Scale: o.Scale, Caption: o.Caption, Panels: export.PanelsPair}
+	switch o.Panels {
+	case figBF:
+		e.Panels = export.PanelsBF
+	case figDF:
+		e.Panels = export.PanelsDF
 	}
-	n, label := 0, "BF"
-	if o.Panels == figDF {
-		n, label = 1, "DF"
-	}
-	gray, err := figure.BeamGray(im, n, o.Mapping)
-	if err != nil {
-		return nil, err
-	}
-	px, err := figure.PixelSizeNm(im.Grid)
-	if err != nil {
-		return nil, err
-	}
-	c := export.Caption(st)
-	c.Lines = append(c.Lines, export.MappingNote(o.Mapping))
-	return figure.Single(gray, label, c, figure.Layout{NmPerPx: px, Scale: o.Scale, Caption: o.Caption})
+	return e
 }
 
 // sceneText is the PNG text chunks that carry the scene.
@@ -83,31 +72,22 @@ func (ws *Workspace) ExportFigure(path string, o FigureOptions) error {
 	if err != nil {
 		return err
 	}
-	fig, err := BuildFigure(st, im, o)
+	fig, err := export.Figure(st, im, o.exportOptions())
 	if err != nil {
 		return err
 	}
 	return figure.WritePNG(path, fig, ws.sceneText())
 }
 
-// ExportTIFF writes the bright and dark field as 32-bit float TIFFs
-// (fractions of the incident beam) next to each other: stem-bf.tiff and
-// stem-df.tiff. It returns the two paths.
-func (ws *Workspace) ExportTIFF(stem string) ([]string, error) {
+// ExportTIFF writes the bright and dark field into dir as 32-bit float
+// TIFFs (fractions of the incident beam) under the names the command line
+// gives them, bf.tiff and df.tiff, and returns the two paths.
+func (ws *Workspace) ExportTIFF(dir string) ([]string, error) {
 	_, im, err := ws.currentFull()
 	if err != nil {
 		return nil, err
 	}
-	stem = strings.TrimSuffix(strings.TrimSuffix(stem, ".tiff"), ".tif")
-	g := im.Grid
-	out := []string{stem + "-bf.tiff", stem + "-df.tiff"}
-	if err := figure.WriteFloatTIFF(out[0], im.BF(), g.NX, g.NY); err != nil {
-		return nil, err
-	}
-	if err := figure.WriteFloatTIFF(out[1], im.DF(), g.NX, g.NY); err != nil {
-		return nil, err
-	}
-	return out, nil
+	return export.WriteTIFFs(dir, im)
 }
 
 // ExportProfile writes the line profile as CSV: along the drawn line
@@ -187,14 +167,14 @@ func (ws *Workspace) ExportFigureDialog() {
 	})
 }
 
-// ExportTIFFDialog asks for the name of the TIFF pair.
+// ExportTIFFDialog asks for the folder of the TIFF pair.
 func (ws *Workspace) ExportTIFFDialog() {
 	if _, _, err := ws.currentFull(); err != nil {
 		ws.showError(err)
 		return
 	}
-	ws.askPath("Export TIFF (32-bit float; -bf and -df are added to the name)", ws.exportStem()+".tiff", ".tiff", func(path string) {
-		out, err := ws.ExportTIFF(path)
+	ws.askFolder("Export TIFF (32-bit float): bf.tiff and df.tiff", ws.ctrl.Dir(), export.TIFFNames, func(dir string) {
+		out, err := ws.ExportTIFF(dir)
 		if err != nil {
 			ws.showError(err)
 			return

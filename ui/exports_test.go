@@ -61,9 +61,13 @@ func TestExports(t *testing.T) {
 		}
 	}
 
-	out, err := ws.ExportTIFF(filepath.Join(dir, "sim.tiff"))
+	out, err := ws.ExportTIFF(dir)
 	if err != nil {
 		t.Fatal(err)
+	}
+	// The names the command line writes.
+	if len(out) != 2 || out[0] != filepath.Join(dir, "bf.tiff") || out[1] != filepath.Join(dir, "df.tiff") {
+		t.Errorf("TIFFs written as %v, want bf.tiff and df.tiff in %s", out, dir)
 	}
 	for k, p := range out {
 		f, err := os.Open(p)

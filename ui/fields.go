@@ -12,6 +12,7 @@ import (
 	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/widget"
 
+	"faultline/export"
 	"faultline/scene"
 )
 
@@ -228,13 +229,7 @@ func formatStep(v, step float64) string {
 	return out
 }
 
-// formatIndices writes indices as "2 0 0".
-func formatIndices(v []float64) string {
-	parts := make([]string, len(v))
-	for i, x := range v {
-		parts[i] = strconv.FormatFloat(x, 'g', -1, 64)
-	}
-	return strings.Join(parts, " ")
-}
+// formatIndices writes indices as "2 0 0" (the program's one formatter).
+func formatIndices(v []float64) string { return export.Indices(v) }
 
 func ptr[T any](v T) *T { return &v }

@@ -215,6 +215,55 @@ func (ws *Workspace) askPath(title, suggest, ext string, then func(path string))
 	d.Show()
 }
 
+// askFolder asks for a folder to write the files names(dir) into, and
+// asks before replacing any that exist.
+func (ws *Workspace) askFolder(title, suggest string, names func(dir string) []string, then func(dir string)) {
+	if ws.win == nil {
+		return
+	}
+	folder := widget.NewEntry()
+	folder.SetText(suggest)
+	browse := widget.NewButton("Choose…", func() {
+		fd := dialog.NewFolderOpen(func(u fyne.ListableURI, err error) {
+			if err == nil && u != nil {
+				folder.SetText(u.Path())
+			}
+		}, ws.win)
+		if l, err := storage.ListerForURI(storage.NewFileURI(folder.Text)); err == nil {
+			fd.SetLocation(l)
+		}
+		fd.Show()
+	})
+	items := []*widget.FormItem{widget.NewFormItem("Folder", container.NewBorder(nil, nil, nil, browse, folder))}
+	d := dialog.NewForm(title, "Save", "Cancel", items, func(ok bool) {
+		if !ok {
+			return
+		}
+		dir := strings.TrimSpace(folder.Text)
+		if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+			ws.showError(fmt.Errorf("folder %s does not exist", dir))
+			return
+		}
+		var exist []string
+		for _, p := range names(dir) {
+			if _, err := os.Stat(p); err == nil {
+				exist = append(exist, filepath.Base(p))
+			}
+		}
+		if len(exist) > 0 {
+			dialog.ShowConfirm("Replace files?", strings.Join(exist, ", ")+" exist in "+dir+". Replace them?", func(yes bool) {
+				if yes {
+					then(dir)
+				}
+			}, ws.win)
+			return
+		}
+		then(dir)
+	}, ws.win)
+	d.Resize(fyne.NewSize(620, 180))
+	d.Show()
+}
+
 // startDir is where file dialogs open: the scene's folder.
 func (ws *Workspace) startDir() fyne.ListableURI {
 	l, err := storage.ListerForURI(storage.NewFileURI(ws.ctrl.Dir()))

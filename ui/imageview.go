@@ -280,12 +280,10 @@ func (v *imageView) hover(x, y float64, in bool) {
 // intensityAt returns the bright- and dark-field intensities of the pixel
 // holding the specimen point (x, y), if it lies in the field.
 func intensityAt(im *sim.Image, x, y float64) (bf, df float64, ok bool) {
-	g := im.Grid
-	fi := (x/g.WidthNm + 0.5) * float64(g.NX)
-	fj := (y/g.HeightNm + 0.5) * float64(g.NY)
-	if fi < 0 || fj < 0 || int(fi) >= g.NX || int(fj) >= g.NY {
+	i, j, ok := im.Grid.PixelAt(x, y)
+	if !ok {
 		return 0, 0, false
 	}
-	k := int(fj)*g.NX + int(fi)
+	k := j*im.Grid.NX + i
 	return im.BF()[k], im.DF()[k], true
 }

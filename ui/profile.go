@@ -3,21 +3,14 @@ package ui
 import (
 	"fmt"
 	"image"
-	"image/color"
-	"math"
-	"strconv"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/canvas"
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/widget"
-	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/plotter"
-	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
 
 	"faultline/export"
+	"faultline/figure"
 )
 
 // profileLine is a straight line across the images, from (X0, Y0) to
@@ -32,77 +25,21 @@ func (l profileLine) lengthNm() float64 { return l.line().LengthNm() }
 // line is the geometry of l for the export package.
 func (l profileLine) line() export.Line { return export.Line{X0: l.X0, Y0: l.Y0, X1: l.X1, Y1: l.Y1} }
 
-// Colours of the two beams in the plot.
-var (
-	bfColour = color.NRGBA{0x20, 0x20, 0x20, 0xff}
-	dfColour = color.NRGBA{0x1f, 0x6f, 0xc0, 0xff}
-)
-
-// plotProfile draws the profile into a w × h pixel image at dpi.
-func plotProfile(p export.LineProfile, w, h int, dpi float64) (image.Image, error) {
-	pl := plot.New()
-	pl.X.Label.Text = "distance along the line (nm)"
-	pl.Y.Label.Text = "intensity / incident"
-	pl.Add(plotter.NewGrid())
-	bf, df := make(plotter.XYs, len(p.DistNm)), make(plotter.XYs, len(p.DistNm))
-	for k := range p.DistNm {
-		bf[k] = plotter.XY{X: p.DistNm[k], Y: p.BF[k]}
-		df[k] = plotter.XY{X: p.DistNm[k], Y: p.DF[k]}
+// profilePlot is the plot of a profile: BF and DF along the line, the
+// y-axis scaled to the data or fixed at 0–1.
+func profilePlot(p export.LineProfile, unit bool) figure.Plot {
+	pl := figure.Plot{
+		XLabel: "distance along the line (nm)",
+		YLabel: "intensity / incident",
+		Series: []figure.Series{
+			{Name: "BF", X: p.DistNm, Y: p.BF},
+			{Name: "DF", X: p.DistNm, Y: p.DF},
+		},
 	}
-	lb, err := plotter.NewLine(bf)
-	if err != nil {
-		return nil, err
+	if unit {
+		pl.Y = figure.YUnit
 	}
-	lb.Color, lb.Width = bfColour, vg.Points(1.5)
-	ld, err := plotter.NewLine(df)
-	if err != nil {
-		return nil, err
-	}
-	ld.Color, ld.Width = dfColour, vg.Points(1.5)
-	pl.Add(lb, ld)
-	pl.Legend.Add("BF", lb)
-	pl.Legend.Add("DF", ld)
-	pl.Legend.Top = true
-	pl.Legend.Left = true
-	pl.Legend.XOffs = vg.Points(8)
-	pl.Y.Min = 0
-	// Room above the curves for the legend.
-	pl.Y.Max = 1.2 * math.Max(1, pl.Y.Max)
-	pl.X.Tick.Marker = niceTicks{}
-	pl.Y.Tick.Marker = niceTicks{}
-	pts := func(px int) vg.Length { return vg.Length(float64(px) * 72 / dpi) }
-	c := vgimg.NewWith(vgimg.UseWH(pts(w), pts(h)), vgimg.UseDPI(int(dpi)))
-	pl.Draw(draw.New(c))
-	return c.Image(), nil
-}
-
-// niceTicks labels an axis at steps of 1, 2 or 5 × 10^n, five to ten of
-// them, with unlabelled ticks between.
-type niceTicks struct{}
-
-func (niceTicks) Ticks(lo, hi float64) []plot.Tick {
-	if !(hi > lo) {
-		return []plot.Tick{{Value: lo, Label: formatNumber(lo)}}
-	}
-	raw := (hi - lo) / 6
-	p := math.Pow(10, math.Floor(math.Log10(raw)))
-	step := p
-	for _, m := range []float64{1, 2, 5, 10} {
-		if m*p >= raw {
-			step = m * p
-			break
-		}
-	}
-	var out []plot.Tick
-	minor := step / 2
-	for v := math.Ceil(lo/minor) * minor; v <= hi+minor*1e-9; v += minor {
-		t := plot.Tick{Value: v}
-		if k := v / step; math.Abs(k-math.Round(k)) < 1e-6 {
-			t.Label = strconv.FormatFloat(math.Round(k)*step, 'g', 6, 64)
-		}
-		out = append(out, t)
-	}
-	return out
+	return pl
 }
 
 // profilePanel is the line-profile plot under the images.
@@ -164,7 +101,7 @@ func (pp *profilePanel) draw(w, h int) image.Image {
 	if s := pp.raster.Size(); s.Width > 0 {
 		scale = float64(w) / float64(s.Width)
 	}
-	img, err := plotProfile(pp.cur, w, h, 96*scale)
+	img, err := profilePlot(pp.cur, false).Image(w, h, 96*scale)
 	if err != nil {
 		return image.NewRGBA(image.Rect(0, 0, w, h))
 	}

@@ -7,6 +7,7 @@ import (
 	xdraw "golang.org/x/image/draw"
 
 	"faultline/micrograph"
+	"faultline/sim"
 )
 
 // A source is what an image panel shows: a grey level at every specimen
@@ -19,25 +20,18 @@ type source interface {
 // image pixel per simulated column (sim.Grid's pixel centres), each shown
 // as a square of one grey.
 type gridSource struct {
-	img        *image.Gray
-	wNm, hNm   float64
-	nx, ny     int
-	invW, invH float64
+	img  *image.Gray
+	grid sim.Grid
 }
 
 func newGridSource(img *image.Gray, wNm, hNm float64) *gridSource {
 	b := img.Bounds()
-	return &gridSource{img: img, wNm: wNm, hNm: hNm, nx: b.Dx(), ny: b.Dy(), invW: 1 / wNm, invH: 1 / hNm}
+	return &gridSource{img: img, grid: sim.Grid{NX: b.Dx(), NY: b.Dy(), WidthNm: wNm, HeightNm: hNm}}
 }
 
 func (s *gridSource) at(x, y float64) (uint8, bool) {
-	fi := (x*s.invW + 0.5) * float64(s.nx)
-	fj := (y*s.invH + 0.5) * float64(s.ny)
-	if fi < 0 || fj < 0 {
-		return 0, false
-	}
-	i, j := int(fi), int(fj)
-	if i >= s.nx || j >= s.ny {
+	i, j, ok := s.grid.PixelAt(x, y)
+	if !ok {
 		return 0, false
 	}
 	return s.img.Pix[j*s.img.Stride+i], true
