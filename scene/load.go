@@ -259,13 +259,15 @@ func known(fields map[string]reflect.Type) string {
 	return strings.Join(names, ", ")
 }
 
-// Marshal returns the scene as indented JSON, the form Save writes.
+// Marshal returns the scene as JSON in the form Save writes: the fields in
+// the order of the file format, two-space indents, every vector on one
+// line, short sections on one line, and a final newline (see formatJSON).
 func Marshal(sc *Scene) ([]byte, error) {
-	data, err := json.MarshalIndent(sc, "", "  ")
+	data, err := json.Marshal(sc)
 	if err != nil {
 		return nil, err
 	}
-	return append(data, '\n'), nil
+	return formatJSON(data)
 }
 
 // Save writes the scene to path: to a temporary file in the same directory
