@@ -13,7 +13,7 @@ const lineWidth = 100
 
 // node is a JSON value with the order of its object keys kept.
 type node struct {
-	scalar string  // the value's JSON text, when it is neither object nor list
+	scalar string // the value's JSON text, when it is neither object nor list
 	keys   []string
 	vals   []*node // object values (keys set) or list items
 	object bool
