@@ -132,7 +132,7 @@ type geometry struct {
 	// specimen.
 	gAngle  float64
 	spheres []sphere // cavities, checked against the foil by the last stage
-	notes    []string
+	notes   []string
 }
 
 // sphere is a cavity, which must lie inside the foil.
