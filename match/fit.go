@@ -78,7 +78,10 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 	if len(at) != 3 {
 		return nil, fmt.Errorf("%w: defects[%d].at_nm: the fitted defect needs a position", ErrSeries, k)
 	}
-	st0, err := scene.Build(base, dir)
+	// One builder for the whole fit: a change of thickness or s re-runs
+	// only the conditions stage, a change of depth the geometry.
+	var builder scene.Builder
+	st0, err := builder.Build(base, dir)
 	if err != nil {
 		return nil, err
 	}
@@ -111,7 +114,7 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 				return 0, Cell{}, err
 			}
 		}
-		st, err := scene.Build(sc, dir)
+		st, err := builder.Build(sc, dir)
 		if err != nil {
 			return 0, Cell{}, err
 		}

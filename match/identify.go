@@ -134,6 +134,9 @@ func Identify(ctx context.Context, s *Series, opt Options) ([]Ranked, error) {
 			return nil, fmt.Errorf("%w: defect %d: the base scene has %d defects", ErrSeries, s.Defect, len(sc0.Defects))
 		}
 		v := View{W: m.Raster.W, H: m.Raster.H, NmPerPx: m.Raster.NmPerPx, GAngleDeg: m.GAngleDeg}
+		// The crystal and its Stroh solutions are built once per
+		// micrograph; each candidate rebuilds only the defect geometry.
+		var builder scene.Builder
 		for ci, c := range s.Candidates {
 			if err := ctx.Err(); err != nil {
 				return nil, err
@@ -145,7 +148,7 @@ func Identify(ctx context.Context, s *Series, opt Options) ([]Ranked, error) {
 			if err := scene.Set(sc, c.Path, c.Value); err != nil {
 				return nil, fmt.Errorf("candidate %s: %w", c.Label, err)
 			}
-			st, err := scene.Build(sc, s.Dir)
+			st, err := builder.Build(sc, s.Dir)
 			if err != nil {
 				return nil, fmt.Errorf("micrographs[%d] with candidate %s: %w", mi, c.Label, err)
 			}
