@@ -71,6 +71,11 @@ type column struct {
 	nRejects int
 	gNorm    float64
 	hasFld   bool
+	// rec, when not nil, receives every step the column takes (Record).
+	rec *recorder
+	// also are the steppers of further models whose beats also limit the
+	// slabs (Record for several models).
+	also []Stepper
 }
 
 // newColumn returns a column integrator for p; phase is g·R of p.Field
@@ -94,6 +99,16 @@ func newColumn(p *Problem, phase func(r3.Vec) float64) *column {
 		c.voider, _ = p.Field.(Voider)
 	}
 	return c
+}
+
+// beat is the fastest beat of the column's model and of the further
+// models, in cycles per nm, at chord slope slope.
+func (c *column) beat(slope float64) float64 {
+	b := c.st.Beat(slope)
+	for _, s := range c.also {
+		b = math.Max(b, s.Beat(slope))
+	}
+	return b
 }
 
 // gamma is g·R at depth z of the current column, in cycles.
@@ -140,11 +155,15 @@ func (c *column) run(x, y float64) {
 		}
 		if c.inVoid(a, b) {
 			c.st.Vacuum(c.psi, b-a)
+			c.rec.vacuum(b - a)
 			continue
 		}
 		ga := c.gamma(a + inset)
-		if !first && ga != prevEnd {
+		if first {
+			c.rec.begin(ga)
+		} else if ga != prevEnd {
 			c.st.Shift(c.psi, ga-prevEnd)
+			c.rec.shift(ga - prevEnd)
 		}
 		first = false
 		prevEnd = c.segment(a, b, ga)
@@ -170,11 +189,12 @@ func (c *column) inVoid(a, b float64) bool {
 func (c *column) segment(a, b, ga float64) float64 {
 	if !c.hasFld {
 		c.st.Crystal(c.psi, b-a, 0, 0, 0)
+		c.rec.slab(b-a, 0, 0, 0)
 		c.nSlabs++
 		return 0
 	}
 	za := a
-	h := math.Min(b-a, firstCycles/c.st.Beat(0))
+	h := math.Min(b-a, firstCycles/c.beat(0))
 	for b-za > 1e-12 {
 		var gb, d1, d2, dep, cyc float64
 		for {
@@ -189,15 +209,15 @@ func (c *column) segment(a, b, ga float64) float64 {
 			d1 = c.gamma(za+gaussNodes[0]*h) - ga - gaussNodes[0]*d
 			d2 = c.gamma(za+gaussNodes[1]*h) - ga - gaussNodes[1]*d
 			dep = math.Max(math.Abs(d1), math.Abs(d2))
-			cyc = c.st.Beat(d/h) * h
-			err := dep * (floorWeight + (cyc/beatScale)*(cyc/beatScale))
+			cyc = c.beat(d/h) * h
+			err := indicator(d1, d2, cyc)
 			if math.IsNaN(err) || math.IsInf(err, 0) {
 				// The field is not finite here: poison the amplitudes so
 				// Render reports the column, and stop.
 				c.psi[0] = complex(math.NaN(), 0)
 				return math.NaN()
 			}
-			if err <= c.tol || h <= minSlabNm {
+			if accept(err, c.tol, h) {
 				break
 			}
 			c.nRejects++
@@ -207,6 +227,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 			}
 		}
 		c.st.Crystal(c.psi, h, (gb-ga)/h, d1, d2)
+		c.rec.slab(h, gb-ga, d1, d2)
 		c.nSlabs++
 		za += h
 		ga = gb
@@ -214,6 +235,16 @@ func (c *column) segment(a, b, ga float64) float64 {
 	}
 	return ga
 }
+
+// indicator is the error indicator of a slab of length h with departures
+// d1, d2 (cycles) holding cyc beat cycles (see the step control above).
+func indicator(d1, d2, cyc float64) float64 {
+	return math.Max(math.Abs(d1), math.Abs(d2)) * (floorWeight + (cyc/beatScale)*(cyc/beatScale))
+}
+
+// accept reports whether a slab of length h with indicator err passes
+// tolerance tol; the shortest slab always does.
+func accept(err, tol, h float64) bool { return err <= tol || h <= minSlabNm }
 
 // predict returns the factor r by which a slab of departure dep holding
 // cyc beat cycles is scaled so that its indicator, with dep ∝ h² and

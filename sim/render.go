@@ -129,11 +129,74 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 	if j0 < 0 || j1 > g.NY || j0 >= j1 {
 		return nil, fmt.Errorf("rows %d to %d: outside the grid's %d rows", j0, j1, g.NY)
 	}
+	im := newImage(p)
+	phase := p.phase()
+	err := rowPool(ctx, j0, j1, opt, func() func(j int) {
+		c := newColumn(p, phase)
+		return func(j int) {
+			y := g.Y(j)
+			for i := 0; i < g.NX; i++ {
+				c.run(g.X(i), y)
+				im.set(i, j, c.out)
+			}
+		}
+	})
+	if err != nil {
+		return nil, err
+	}
+	if err := im.checkFinite(); err != nil {
+		return nil, err
+	}
+	return im, nil
+}
+
+// newImage returns a zero image of p's grid and beams.
+func newImage(p *Problem) *Image {
+	g := p.Grid
 	beams := p.Model.Beams()
 	im := &Image{Grid: g, Beams: append([]int(nil), beams...), Intensity: make([][]float64, len(beams))}
 	for k := range im.Intensity {
 		im.Intensity[k] = make([]float64, g.NX*g.NY)
 	}
+	return im
+}
+
+// set stores the beams' intensities of pixel (i, j).
+func (im *Image) set(i, j int, out []float64) {
+	n := j*im.Grid.NX + i
+	for k := range im.Intensity {
+		im.Intensity[k][n] = out[k]
+	}
+}
+
+// checkFinite reports the first pixel, in raster order, with a
+// non-finite intensity.
+func (im *Image) checkFinite() error {
+	bad := -1
+	for k := range im.Intensity {
+		for n, v := range im.Intensity[k] {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				if bad < 0 || n < bad {
+					bad = n
+				}
+				break
+			}
+		}
+	}
+	if bad < 0 {
+		return nil
+	}
+	g := im.Grid
+	i, j := bad%g.NX, bad/g.NX
+	return fmt.Errorf("%w: column (%g, %g) nm gave a non-finite intensity; a defect's field is not finite there", ErrNonFinite, g.X(i), g.Y(j))
+}
+
+// rowPool runs the rows j0 ≤ j < j1 over opt.Workers goroutines (default
+// GOMAXPROCS), each with its own row function from start, reporting
+// progress row by row and stopping between rows when ctx is cancelled.
+// Every row is computed by the same sequence of operations whichever
+// worker takes it.
+func rowPool(ctx context.Context, j0, j1 int, opt Options, start func() func(j int)) error {
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -142,20 +205,17 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 	if workers > rows {
 		workers = rows
 	}
-	phase := p.phase()
 	var (
-		bad      sync.Mutex
-		badPixel = -1
-		next     atomic.Int64
-		mu       sync.Mutex
-		done     int
-		wg       sync.WaitGroup
+		next atomic.Int64
+		mu   sync.Mutex
+		done int
+		wg   sync.WaitGroup
 	)
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			c := newColumn(p, phase)
+			row := start()
 			for {
 				if ctx.Err() != nil {
 					return
@@ -164,21 +224,7 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 				if j >= j1 {
 					return
 				}
-				y := g.Y(j)
-				for i := 0; i < g.NX; i++ {
-					c.run(g.X(i), y)
-					for k := range beams {
-						v := c.out[k]
-						if math.IsNaN(v) || math.IsInf(v, 0) {
-							bad.Lock()
-							if n := j*g.NX + i; badPixel < 0 || n < badPixel {
-								badPixel = n
-							}
-							bad.Unlock()
-						}
-						im.Intensity[k][j*g.NX+i] = v
-					}
-				}
+				row(j)
 				if opt.Progress != nil {
 					mu.Lock()
 					done++
@@ -189,12 +235,5 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 		}()
 	}
 	wg.Wait()
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	if badPixel >= 0 {
-		i, j := badPixel%g.NX, badPixel/g.NX
-		return nil, fmt.Errorf("%w: column (%g, %g) nm gave a non-finite intensity; a defect's field is not finite there", ErrNonFinite, g.X(i), g.Y(j))
-	}
-	return im, nil
+	return ctx.Err()
 }

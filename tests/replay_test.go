@@ -1,0 +1,82 @@
+package tests
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"faultline/sim"
+)
+
+// A replay of the recorded field samples with other conditions (s,
+// thickness, absorption) agrees with a fresh render of those conditions
+// within 1e-4 of the incident beam, on the demo scene; both are within
+// that of converged (TestDefaultToleranceAgainstConverged).
+func TestReplayAgreesWithRender(t *testing.T) {
+	st := loadScene(t, "../assets/demo.json", 128, 128, 0)
+	ctx := context.Background()
+	base, ok := st.Problem.Model.(sim.TwoBeam)
+	if !ok {
+		t.Fatalf("demo model %T, want two-beam", st.Problem.Model)
+	}
+	with := func(s, absRatio float64) sim.TwoBeam {
+		m := base
+		m.SPerNm = s
+		if absRatio > 0 {
+			m.XiGAbsNm = m.XiGNm / absRatio
+			m.Xi0AbsNm = m.XiGAbsNm
+		}
+		return m
+	}
+	im0, samples, err := sim.Record(ctx, st.Problem, sim.RecordOptions{MaxThicknessNm: 240,
+		Also: []sim.Model{with(-0.004, 0), with(0.012, 0)}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if samples == nil {
+		t.Fatal("no samples recorded")
+	}
+	g := st.Problem.Grid
+	t.Logf("samples: %.0f bytes per column", float64(samples.Bytes())/float64(g.NX*g.NY))
+	fresh0, err := sim.Render(ctx, st.Problem, sim.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := maxDiff(im0, fresh0); d > 1e-4 {
+		t.Errorf("recording render differs from a plain one by %.3g", d)
+	}
+	for _, c := range []struct {
+		s, t, abs float64
+	}{{0.004, 120, 0}, {0.010, 90, 0}, {-0.002, 200, 0}, {0.004, 240, 0}, {0.0, 60, 0.05}, {0.03, 120, 0}} {
+		m := with(c.s, c.abs)
+		got, nFresh, err := samples.Replay(ctx, m, c.t, sim.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		p := *st.Problem
+		p.Model = m
+		p.ThicknessNm = c.t
+		want, err := sim.Render(ctx, &p, sim.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		d := maxDiff(got, want)
+		t.Logf("s = %g, t = %g nm, absorption %g: replay within %.2e of a fresh render, %d columns afresh", c.s, c.t, c.abs, d, nFresh)
+		if d > 1e-4 {
+			t.Errorf("s = %g, t = %g: replay differs from a fresh render by %.3g", c.s, c.t, d)
+		}
+	}
+	if _, _, err := samples.Replay(ctx, base, 241, sim.Options{}); err == nil {
+		t.Error("replay beyond the recorded thickness accepted")
+	}
+}
+
+func maxDiff(a, b *sim.Image) float64 {
+	worst := 0.0
+	for k := range a.Intensity {
+		for n := range a.Intensity[k] {
+			worst = math.Max(worst, math.Abs(a.Intensity[k][n]-b.Intensity[k][n]))
+		}
+	}
+	return worst
+}
