@@ -96,7 +96,7 @@ type RecordOptions struct {
 
 // Samples are the recorded steps of every column of a render (see Record).
 type Samples struct {
-	p      Problem // the recorded problem, ThicknessNm the recorded one
+	p      Problem              // the recorded problem, ThicknessNm the recorded one
 	phase  func(r3.Vec) float64 // g·R of the field, shared by the replays
 	rows   [][]step
 	starts [][]int32 // per row, the first step of each column and the end
