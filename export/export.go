@@ -60,8 +60,14 @@ func Caption(st *scene.Setup) figure.Caption {
 		material = st.Crystal.Name
 	}
 	model := st.Model
-	if st.Model == "two-beam" {
+	switch st.Model {
+	case "two-beam":
 		model = fmt.Sprintf("two-beam, ξg/ξ'g = %g", st.Absorption)
+	case "systematic-row":
+		model = fmt.Sprintf("systematic row, %d beams, ξg/ξ'g = %g", len(st.Row), st.Absorption)
+	}
+	if st.TiltOffZoneDeg != 0 {
+		model += fmt.Sprintf(", %g° off the zone about g", st.TiltOffZoneDeg)
 	}
 	lines := []string{
 		fmt.Sprintf("%s   B = [%s]   %s   t = %g nm   %g kV", material, Indices(d.Beam), dev, st.Problem.ThicknessNm, st.VoltageKV),
@@ -92,6 +98,10 @@ type Options struct {
 	// Readings adds to the caption the reading of every defect under the
 	// figure's g and s (scene.Setup.Readings): the long caption.
 	Readings bool
+	// AllBeams also writes every other beam's intensity as a float TIFF,
+	// beam_N.tiff for the beam N·g (beam_-1.tiff, beam_2.tiff, …); the
+	// transmitted beam and g are bf.tiff and df.tiff.
+	AllBeams bool
 }
 
 // captionLines returns the caption of a figure: the conditions, and with
@@ -224,11 +234,23 @@ func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, s
 	if err != nil {
 		return err
 	}
-	return atomicfile.WriteSet(ctx, dir, append([]atomicfile.File{
+	files := append([]atomicfile.File{
 		{Name: FileBFPNG, Encode: func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
 		{Name: FileDFPNG, Encode: func(w io.Writer) error { return figure.EncodePNG(w, df, text) }},
 		{Name: FileFigure, Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }},
-	}, tiffFiles(im)...))
+	}, tiffFiles(im)...)
+	if o.AllBeams {
+		g := im.Grid
+		for k, n := range im.Beams {
+			if n == 0 || n == 1 {
+				continue
+			}
+			plane := im.Intensity[k]
+			files = append(files, atomicfile.File{Name: fmt.Sprintf("beam_%d.tiff", n),
+				Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, plane, g.NX, g.NY) }})
+		}
+	}
+	return atomicfile.WriteSet(ctx, dir, files)
 }
 
 // tiffFiles are bf.tiff and df.tiff of im.

@@ -82,7 +82,7 @@ func TestCaptionCarriesTheConditions(t *testing.T) {
 	}
 	c := Caption(st)
 	text := c.G + " | " + strings.Join(c.Lines, " | ")
-	for _, want := range []string{"g = 2 2 0", "B = [0 0 1]", "g(3g)", "t = 85 nm", "300 kV", "two-beam", "Cu"} {
+	for _, want := range []string{"g = 2 2 0", "B = [0 0 1]", "g(3g)", "t = 85 nm", "300 kV", "systematic row, 7 beams", "Cu"} {
 		if !strings.Contains(text, want) {
 			t.Errorf("caption %q lacks %q", text, want)
 		}

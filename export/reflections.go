@@ -57,22 +57,33 @@ type ReflectionJSON struct {
 	W            *float64  `json:"w"`
 	Forbidden    bool      `json:"forbidden"`
 	SceneG       bool      `json:"scene_g"`
+	// Systematic marks the multiples of g; Row is n for the beams n·g the
+	// systematic-row model follows.
+	Systematic bool `json:"systematic"`
+	Row        *int `json:"row,omitempty"`
 }
 
 // ReflectionsJSON is the whole listing.
 type ReflectionsJSON struct {
-	Crystal      string           `json:"crystal"`
-	VoltageKV    float64          `json:"voltage_kv"`
-	WavelengthNm *float64         `json:"wavelength_nm"`
-	Beam         []float64        `json:"beam"`
-	Reflections  []ReflectionJSON `json:"reflections"`
+	Crystal      string    `json:"crystal"`
+	VoltageKV    float64   `json:"voltage_kv"`
+	WavelengthNm *float64  `json:"wavelength_nm"`
+	Beam         []float64 `json:"beam"`
+	Model        string    `json:"model"`
+	Beams        int       `json:"beams,omitempty"` // of the systematic row
+	// TiltOffZoneDeg is the beam's rotation about g off the zone axis.
+	TiltOffZoneDeg float64          `json:"tilt_off_zone_deg"`
+	Reflections    []ReflectionJSON `json:"reflections"`
+	Warnings       []string         `json:"warnings"`
 }
 
 // Reflections rounds a listing of st to the decimals the text shows.
 func Reflections(st *scene.Setup, refl []scene.Reflection) ReflectionsJSON {
-	out := ReflectionsJSON{Crystal: st.Crystal.Name, VoltageKV: st.VoltageKV, WavelengthNm: roundSig(st.WavelengthNm, sigLam), Beam: st.Scene.Diffraction.Beam}
+	out := ReflectionsJSON{Crystal: st.Crystal.Name, VoltageKV: st.VoltageKV, WavelengthNm: roundSig(st.WavelengthNm, sigLam), Beam: st.Scene.Diffraction.Beam,
+		Model: st.Model, Beams: len(st.Row), TiltOffZoneDeg: st.TiltOffZoneDeg, Warnings: append([]string{}, st.Warnings...)}
 	for i, r := range refl {
-		j := ReflectionJSON{HKL: zeroSigns(r.HKL), DNm: roundTo(r.DNm, decD), FgNm: roundSig(r.FgNm, sigFg), SPerNm: roundTo(r.SPerNm, decS), Forbidden: r.Forbidden, SceneG: i == 0}
+		j := ReflectionJSON{HKL: zeroSigns(r.HKL), DNm: roundTo(r.DNm, decD), FgNm: roundSig(r.FgNm, sigFg), SPerNm: roundTo(r.SPerNm, decS), Forbidden: r.Forbidden, SceneG: i == 0,
+			Systematic: r.Systematic, Row: r.Row}
 		if r.ExtinctionNm != nil {
 			j.ExtinctionNm = roundTo(*r.ExtinctionNm, decXi)
 		}
@@ -107,7 +118,14 @@ func WriteReflectionsText(w io.Writer, st *scene.Setup, refl []scene.Reflection)
 	if r.WavelengthNm != nil {
 		lam = fmt.Sprintf("%.5f", *r.WavelengthNm)
 	}
-	fmt.Fprintf(w, "%s at %g kV, λ = %s nm, beam [%s]\n", r.Crystal, r.VoltageKV, lam, Indices(r.Beam))
+	fmt.Fprintf(w, "%s at %g kV, λ = %s nm, beam [%s]", r.Crystal, r.VoltageKV, lam, Indices(r.Beam))
+	if r.TiltOffZoneDeg != 0 {
+		fmt.Fprintf(w, " tilted %g° about g off the zone", r.TiltOffZoneDeg)
+	}
+	fmt.Fprintln(w)
+	if r.Beams > 0 {
+		fmt.Fprintf(w, "model %s: %d beams; the lines marked n are the beams n·g it follows (s_n, w_n)\n", r.Model, r.Beams)
+	}
 	fmt.Fprintf(w, "%-14s %9s %12s %10s %9s\n", "hkl", "d_nm", "ξ_g (nm)", "s (/nm)", "w")
 	num := func(p *float64, d int) string {
 		if p == nil {
@@ -117,14 +135,22 @@ func WriteReflectionsText(w io.Writer, st *scene.Setup, refl []scene.Reflection)
 	}
 	for _, x := range r.Reflections {
 		mark := ""
+		if x.Row != nil {
+			mark = fmt.Sprintf("  n = %d", *x.Row)
+		}
 		if x.SceneG {
-			mark = "  <- g of the scene"
+			mark += "  <- g of the scene"
 		}
 		xi := num(x.ExtinctionNm, decXi)
 		if x.Forbidden && x.ExtinctionNm == nil {
 			xi = "forbidden"
 		}
 		if _, err := fmt.Fprintf(w, "%-14s %9s %12s %10s %9s%s\n", Indices(x.HKL), num(x.DNm, decD), xi, num(x.SPerNm, decS), num(x.W, decW), mark); err != nil {
+			return err
+		}
+	}
+	for _, m := range r.Warnings {
+		if _, err := fmt.Fprintln(w, "warning: "+m); err != nil {
 			return err
 		}
 	}

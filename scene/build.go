@@ -42,6 +42,11 @@ type Setup struct {
 	// every model (+Inf with no absorption).
 	XiGAbsNm, Xi0AbsNm float64
 	Model              string
+	// Row lists the beams of the systematic row, −N…N, for that model
+	// (nil for the others).
+	Row []RowBeam
+	// TiltOffZoneDeg is the beam's rotation about g off the zone axis.
+	TiltOffZoneDeg float64
 
 	// Rotation takes crystal Cartesian vectors into the frame of g:
 	// row 0 is x (along g), row 1 is y = z × x, row 2 is z (the beam).
@@ -57,6 +62,10 @@ type Setup struct {
 	// Notes records defaults applied and values derived (a dissociation
 	// width from a stacking-fault energy), for display.
 	Notes []string
+	// Warnings records conditions a user should reconsider, for display:
+	// a weak-beam condition weaker than common practice, strongly excited
+	// reflections the model leaves out.
+	Warnings []string
 
 	stroh   *defects.StrohCache // the material's, for the defects
 	spheres []sphere            // cavities found while building defects
@@ -329,7 +338,7 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 		// s_g = (n − 1) λ g²/2 puts n·g at the Bragg position (the g(ng)
 		// weak-beam condition; Cockayne, Ray & Whelan 1969).
 		st.SPerNm = (d.WeakBeam.N - 1) * st.WavelengthNm * st.GPerNm * st.GPerNm / 2
-		st.Notes = append(st.Notes, fmt.Sprintf("weak beam g(%gg): s = %.4f /nm, computed with g alone; the other beams of the systematic row are left out (the many-beam model is not built yet)", d.WeakBeam.N, st.SPerNm))
+		st.Notes = append(st.Notes, fmt.Sprintf("weak beam g(%gg): s_g = %.4f /nm puts %g·g at the Bragg position", d.WeakBeam.N, st.SPerNm, d.WeakBeam.N))
 	case d.Kikuchi != nil:
 		s, err := crystal.DeviationFromKikuchi(st.WavelengthNm, st.GPerNm, d.Kikuchi.Offset, d.Kikuchi.Spacing)
 		if err != nil {
@@ -348,6 +357,16 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 	st.Model = d.Model
 	if st.Model == "" {
 		st.Model = DefaultModel
+		if d.WeakBeam != nil {
+			// A weak-beam image needs the rest of the systematic row.
+			st.Model = "systematic-row"
+		}
+	}
+	if d.WeakBeam != nil && st.Model != "systematic-row" {
+		st.Notes = append(st.Notes, fmt.Sprintf("weak beam with the %s model: computed with g alone, the rest of the systematic row left out", st.Model))
+	}
+	if d.TiltOffZoneDeg != nil {
+		st.TiltOffZoneDeg = *d.TiltOffZoneDeg
 	}
 	// Mean absorption: ξ'_0 = ξ'_g of the imaged g, the one convention of
 	// every model (see the package documentation).
@@ -368,7 +387,16 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 		st.Absorption = ratio
 		model = tb
 	case "systematic-row":
-		return nil, fieldErr("diffraction.model", "systematic-row (many-beam) is not built yet; use two-beam or kinematical")
+		beams := rowBeams(d)
+		row, err := st.rowModel(beams, ratio)
+		if err != nil {
+			return nil, err
+		}
+		if d.Beams == 0 {
+			st.Notes = append(st.Notes, fmt.Sprintf("systematic row of %d beams, %d·g to %d·g (default)", beams, -beams/2, beams/2))
+		}
+		st.Absorption = ratio
+		model = row
 	}
 
 	// Foil.
@@ -411,6 +439,7 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 		st.GAngleDeg = geo.gAngle * 180 / math.Pi
 		st.Problem = sim.Turn(st.Problem, geo.gAngle, st.Problem.Grid)
 	}
+	st.warnConditions()
 	if err := st.Problem.Validate(); err != nil {
 		// Everything the problem holds was checked above except what the
 		// crystal produced: the extinction distance and the model built

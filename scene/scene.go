@@ -74,15 +74,23 @@ type Diffraction struct {
 	W        *float64  `json:"w,omitempty"`
 	WeakBeam *WeakBeam `json:"weak_beam,omitempty"`
 	Kikuchi  *Kikuchi  `json:"deviation_from_kikuchi,omitempty"`
-	// Model is "kinematical", "two-beam" (the default) or "systematic-row".
-	Model           string   `json:"model,omitempty"`
+	// Model is "kinematical", "two-beam" or "systematic-row"; left out it
+	// is two-beam, or the systematic row for a weak_beam condition.
+	Model string `json:"model,omitempty"`
+	// Beams is the number of beams of the systematic row, odd, 3 to 15
+	// (−N…N); left out, 7 (or enough to hold the weak beam's n·g).
 	Beams           int      `json:"beams,omitempty"`
 	ExtinctionNm    *float64 `json:"extinction_nm,omitempty"`
 	AbsorptionRatio *float64 `json:"absorption_ratio,omitempty"`
+	// TiltOffZoneDeg is the beam's rotation about g away from the zone
+	// axis, in degrees (−90, 90): it leaves the systematic row's excitation
+	// errors alone and moves the other reflections of the zone off Bragg.
+	TiltOffZoneDeg *float64 `json:"tilt_off_zone_deg,omitempty"`
 }
 
 // WeakBeam sets the g(ng) condition: the reflection n·g is at the Bragg
-// position while the image is formed with g.
+// position while the image is formed with g. n is a whole number other
+// than 0 and 1; negative n (g(−g), g(−2g)) tilts the other way.
 type WeakBeam struct {
 	N float64 `json:"n"`
 }

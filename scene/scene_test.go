@@ -119,7 +119,11 @@ func TestBuildErrors(t *testing.T) {
 		{replace(t, `"g": [2, 0, 0]`, `"g": [1, 1, 0]`), "diffraction.g: [1 1 0] is kinematically forbidden in Cu"},
 		{replace(t, `"1/2[1 1 0]"`, `"1/2[1 1 x]"`), "defects[0].b"},
 		{replace(t, `"material": "Cu"`, `"material": "Kryptonite"`), "crystal.material"},
-		{replace(t, `"s_per_nm": 0.01`, `"s_per_nm": 0.01, "model": "systematic-row", "beams": 5`), "systematic-row (many-beam) is not built yet"},
+		// A systematic row reaching 7·g of Cu 600 (|g| = 16.6 /nm) lies beyond
+		// the scattering-factor fits (sinθ/λ ≤ 2/Å, International Tables
+		// Vol. C, Table 4.3.2.2).
+		{replace(t, `"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01`, `"g": [6, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01, "model": "systematic-row", "beams": 7`), "diffraction.beams: 7 beams reach 3·g"},
+		{replace(t, `"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01`, `"g": [1, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01, "model": "systematic-row", "beams": 5`), "diffraction.g: [1 0 0] is kinematically forbidden in Cu; give diffraction.extinction_nm"},
 		{replace(t, `"thickness_nm": 120`, `"thickness_nm": 120, "normal": [1, 0, 0]`), "foil.normal"},
 	} {
 		sc, err := Parse([]byte(c.text))

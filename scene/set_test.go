@@ -96,7 +96,7 @@ func TestSetErrors(t *testing.T) {
 		{"defects[0].radius_nm", 5.0, "defects[0].radius_nm", "does not apply to a dislocation"},
 		{"defects[0]", map[string]any{"type": "cavity", "size": 3}, "defects[0].size", "unknown field"},
 		{"defects[0].type", "crack", "defects[0].type", `"crack" is not a defect type`},
-		{"diffraction.weak_beam.n", 2.5, "diffraction.weak_beam.n", "whole number n from 2 to 20"},
+		{"diffraction.weak_beam.n", 2.5, "diffraction.weak_beam.n", "whole number n from −20 to 20"},
 		{"defects.b", "x", "defects.b", "unknown field: defects holds no fields"},
 		{"foil[0]", 1, "foil[0]", "foil is not a list"},
 		{"Foil.thickness_nm", 1, "Foil.thickness_nm", "not a field path"},

@@ -151,8 +151,18 @@ func (d *Diffraction) validate(path string) error {
 	if d.W != nil && !finite(*d.W) {
 		return fieldErr(path+".w", "must be a finite number")
 	}
-	if d.WeakBeam != nil && !(d.WeakBeam.N >= 2 && d.WeakBeam.N <= 20 && d.WeakBeam.N == math.Trunc(d.WeakBeam.N)) {
-		return fieldErr(path+".weak_beam.n", "%g: the g(ng) condition needs a whole number n from 2 to 20 (n = 1 is the Bragg condition: use s_per_nm 0; any other s: use s_per_nm)", d.WeakBeam.N)
+	if wb := d.WeakBeam; wb != nil {
+		switch n := wb.N; {
+		case n != math.Trunc(n) || math.Abs(n) > 20:
+			return fieldErr(path+".weak_beam.n", "%g: the g(ng) condition needs a whole number n from −20 to 20 (any other s: use s_per_nm)", n)
+		case n == 1:
+			return fieldErr(path+".weak_beam.n", "1: g(1g) is the Bragg condition, not a weak-beam one; use s_per_nm 0, or n = 3 for g(3g)")
+		case n == 0:
+			return fieldErr(path+".weak_beam.n", "0: g(0g) would put the transmitted beam at the Bragg position, which it always is; use n = 3 for g(3g) or n = −1 for g(−g)")
+		}
+	}
+	if t := d.TiltOffZoneDeg; t != nil && !(math.Abs(*t) < 90) {
+		return fieldErr(path+".tilt_off_zone_deg", "%g°: the rotation about g must be less than 90° either way", *t)
 	}
 	if k := d.Kikuchi; k != nil {
 		if !(k.Spacing > 0) {
@@ -163,13 +173,20 @@ func (d *Diffraction) validate(path string) error {
 		}
 	}
 	switch d.Model {
-	case "", "kinematical", "two-beam":
+	case "":
+		if d.Beams != 0 && d.WeakBeam == nil {
+			return fieldErr(path+".beams", "applies only to the systematic-row model (set model to systematic-row)")
+		}
+		if d.Beams != 0 && (d.Beams < 3 || d.Beams%2 == 0 || d.Beams > 2*sim.MaxRowOrder+1) {
+			return fieldErr(path+".beams", "%d: the systematic row needs an odd number of beams from 3 to %d (−N…N)", d.Beams, 2*sim.MaxRowOrder+1)
+		}
+	case "kinematical", "two-beam":
 		if d.Beams != 0 {
 			return fieldErr(path+".beams", "applies only to the systematic-row model")
 		}
 	case "systematic-row":
-		if d.Beams < 3 || d.Beams%2 == 0 || d.Beams > 31 {
-			return fieldErr(path+".beams", "%d: the systematic row needs an odd number of beams from 3 to 31", d.Beams)
+		if d.Beams != 0 && (d.Beams < 3 || d.Beams%2 == 0 || d.Beams > 2*sim.MaxRowOrder+1) {
+			return fieldErr(path+".beams", "%d: the systematic row needs an odd number of beams from 3 to %d (−N…N)", d.Beams, 2*sim.MaxRowOrder+1)
 		}
 	default:
 		return fieldErr(path+".model", "%q is not a model; use one of %s", d.Model, strings.Join(Models, ", "))

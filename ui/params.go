@@ -222,11 +222,11 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	p.Beams = b.numberEntry("diffraction.beams",
 		func(sc *scene.Scene) string {
 			if sc.Diffraction.Beams == 0 {
-				return "5"
+				return fmt.Sprint(scene.DefaultRowBeams)
 			}
 			return fmt.Sprint(sc.Diffraction.Beams)
 		})
-	beamsRow := form(formRow("Beams", unit(p.Beams, "odd, 3 to 31"), board.label("diffraction.beams")))
+	beamsRow := form(formRow("Beams", unit(p.Beams, "odd, 3 to 15"), board.label("diffraction.beams")))
 	p.Model = widget.NewSelect(scene.Models, func(m string) {
 		if m == "systematic-row" {
 			beamsRow.Show()
@@ -239,7 +239,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		// The number of beams belongs to the systematic row only.
 		var beams any
 		if m == "systematic-row" {
-			beams = 5
+			beams = scene.DefaultRowBeams
 			if n := ws.ctrl.Scene().Diffraction.Beams; n != 0 {
 				beams = n
 			}
@@ -251,6 +251,9 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		m := sc.Diffraction.Model
 		if m == "" {
 			m = scene.DefaultModel
+			if sc.Diffraction.WeakBeam != nil {
+				m = "systematic-row" // what the scene builds for a weak beam
+			}
 		}
 		p.Model.SetSelected(m)
 		if m == "systematic-row" {

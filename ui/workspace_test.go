@@ -156,8 +156,8 @@ func TestSystematicRowShowsLibraryError(t *testing.T) {
 	fr := &fakeRender{}
 	ws, _ := newTestWorkspace(t, fr.render)
 	ws.params.Model.SetSelected("systematic-row")
-	if ws.ctrl.Scene().Diffraction.Model != "systematic-row" || ws.ctrl.Scene().Diffraction.Beams != 5 {
-		t.Fatalf("model %q beams %d, want systematic-row with 5 beams", ws.ctrl.Scene().Diffraction.Model, ws.ctrl.Scene().Diffraction.Beams)
+	if ws.ctrl.Scene().Diffraction.Model != "systematic-row" || ws.ctrl.Scene().Diffraction.Beams != scene.DefaultRowBeams {
+		t.Fatalf("model %q beams %d, want systematic-row with %d beams", ws.ctrl.Scene().Diffraction.Model, ws.ctrl.Scene().Diffraction.Beams, scene.DefaultRowBeams)
 	}
 	_, err := scene.Build(ws.ctrl.Scene(), ".")
 	l := ws.board.labels["diffraction.model"]

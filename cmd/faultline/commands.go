@@ -24,12 +24,13 @@ var errHelp = errors.New("help shown")
 
 // command usages, printed by COMMAND --help (on stdout, exit 0).
 var commandUsage = map[string]string{
-	"render": `usage: faultline render SCENE -o DIR [--caption short|long] [--tolerance CYCLES]
+	"render": `usage: faultline render SCENE -o DIR [--caption short|long] [--tolerance CYCLES] [--all-beams]
 
 Simulates SCENE and writes into DIR (created with its missing parents):
 bf.png, df.png (8-bit, grey = 255·I), figure.png (the labelled pair),
-bf.tiff, df.tiff (32-bit float, fraction of the incident beam). The five
-files are written as one set: a failure leaves DIR as it was.
+bf.tiff, df.tiff (32-bit float, fraction of the incident beam; df is the g
+beam for every model). The files are written as one set: a failure leaves
+DIR as it was.
 
 On stderr, after any notes, one "reading:" line per defect: what a
 microscopist would read from its image under the scene's g and s (fault
@@ -39,6 +40,8 @@ inside–outside contrast, a precipitate's misfit sign).
   -o DIR   the output directory (required)
   --caption short|long  short (default): the conditions under the figure;
            long: also the reading of every defect
+  --all-beams  also write beam_N.tiff for every other beam N·g of the
+               model (beam_-1.tiff, beam_2.tiff, …)
   --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
   --tolerance CYCLES  step-control tolerance of the column integrator, in
            cycles of g·R (default 5e-05: every pixel within 1e-4 of the
@@ -83,6 +86,7 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	fs := newFlags("render")
 	out := fs.String("o", "", "output directory")
 	caption := fs.String("caption", "short", "figure caption: short (the conditions) or long (also the reading of every defect)")
+	allBeams := fs.Bool("all-beams", false, "also write beam_N.tiff for every other beam N·g of the model")
 	set := setFlag(fs)
 	tol := fs.Float64("tolerance", sim.DefaultTolerance, "step-control tolerance, cycles")
 	path, err := parse(fs, args, stdout)
@@ -108,6 +112,7 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	st.Problem.Tolerance = *tol
 	o := export.DefaultOptions()
 	o.Readings = *caption == "long"
+	o.AllBeams = *allBeams
 	// A figure that cannot be drawn is refused before the render.
 	if err := export.CheckFigure(st, o); err != nil {
 		return err
@@ -127,9 +132,7 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	}
 	// Notes (defaults applied, values derived) only once all went well, so
 	// a failure is the one line on stderr.
-	for _, n := range st.Notes {
-		fmt.Fprintln(stderr, "note: "+n)
-	}
+	printNotes(stderr, st)
 	// What a microscopist would read from each defect's image.
 	for _, r := range st.ReadingLines() {
 		fmt.Fprintln(stderr, "reading: "+r)
@@ -139,6 +142,17 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 		fmt.Fprintf(stderr, "rendered %d×%d columns in %.2f s into %s\n", g.NX, g.NY, time.Since(start).Seconds(), *out)
 	}
 	return nil
+}
+
+// printNotes writes the scene's notes (defaults applied, values derived)
+// and warnings (conditions to reconsider) to w, one a line.
+func printNotes(w io.Writer, st *scene.Setup) {
+	for _, n := range st.Notes {
+		fmt.Fprintln(w, "note: "+n)
+	}
+	for _, n := range st.Warnings {
+		fmt.Fprintln(w, "warning: "+n)
+	}
 }
 
 // checkOutputDir refuses, before any work, an -o that cannot take the

@@ -61,7 +61,9 @@ func (e outputError) Error() string {
 func (e outputError) Unwrap() error { return e.err }
 
 const usage = `usage:
-  faultline render SCENE -o DIR           write bf.png, df.png, figure.png, bf.tiff, df.tiff
+  faultline render SCENE -o DIR [--all-beams]
+                                          write bf.png, df.png, figure.png, bf.tiff, df.tiff
+                                          (df: the g beam); --all-beams adds beam_N.tiff
   faultline profile SCENE [--y-nm Y]      CSV x_nm,bf,df along the pixel row nearest y = Y nm
   faultline profile SCENE --from X,Y --to X,Y
                                           CSV distance_nm,x_nm,y_nm,bf,df along a line

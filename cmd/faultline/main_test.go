@@ -6,6 +6,7 @@ import (
 	"crypto/sha256"
 	"encoding/json"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -14,6 +15,7 @@ import (
 	"time"
 
 	"faultline/export"
+	"faultline/figure"
 	"faultline/scene"
 	"faultline/sim"
 )
@@ -420,5 +422,53 @@ func TestToleranceFlag(t *testing.T) {
 	}
 	if _, errOut, code := runCLI("render", sc, "-o", t.TempDir(), "--tolerance", "1e-7"); code != exitOK {
 		t.Errorf("--tolerance 1e-7: exit %d: %s", code, errOut)
+	}
+}
+
+// render --all-beams writes beam_N.tiff for every beam of the systematic
+// row besides 0 and g; df.tiff is the g beam, and with absorption off the
+// beams add up to the incident intensity (Σ|φ_n|² = 1; Hirsch et al. 1965).
+func TestRenderAllBeams(t *testing.T) {
+	dir := t.TempDir()
+	sc := filepath.Join(dir, "wb.json")
+	os.WriteFile(sc, []byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "weak_beam": {"n": 3}, "beams": 5, "absorption_ratio": 0},
+	  "foil": {"thickness_nm": 60},
+	  "defects": [{"type": "dislocation", "b": "1/2[1 1 0]", "line": [1, -1, 0], "at_nm": [0, 0, 30]}],
+	  "image": {"width_nm": 40, "height_nm": 40, "pixels": [8, 8]}}`), 0o644)
+	out := filepath.Join(dir, "out")
+	var stdout, stderr bytes.Buffer
+	if code := run(context.Background(), []string{"render", sc, "-o", out, "--all-beams"}, &stdout, &stderr); code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr.String())
+	}
+	read := func(name string) []float32 {
+		f, err := os.Open(filepath.Join(out, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer f.Close()
+		v, _, _, err := figure.ReadFloatTIFF(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	total := make([]float64, 64)
+	for _, name := range []string{"bf.tiff", "df.tiff", "beam_-2.tiff", "beam_-1.tiff", "beam_2.tiff"} {
+		for i, v := range read(name) {
+			total[i] += float64(v)
+		}
+	}
+	for i, v := range total {
+		// float32 files: 1e-6.
+		if math.Abs(v-1) > 1e-6 {
+			t.Fatalf("pixel %d: the beams add up to %g", i, v)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(out, "beam_1.tiff")); err == nil {
+		t.Error("beam_1.tiff written; g is df.tiff")
+	}
+	if !strings.Contains(stderr.String(), "warning: diffraction.weak_beam") {
+		t.Errorf("no weak-beam warning on stderr: %q", stderr.String())
 	}
 }
