@@ -22,9 +22,10 @@ import (
 // the phase is 2π s d v − arctan v; surfaces aside), so the peak position
 // scales as 1/s.
 //
-// Rendered with the two-beam model at the excitation error of g(3g) and
-// g(4g) (s = (n−1)λg²/2; the rest of the systematic row is left out, as
-// the program notes), the peak must lie in (0, d*] on the side of
+// Rendered with the two-beam model (given explicitly: a weak_beam
+// condition otherwise uses the systematic row, whose n·g at the Bragg
+// position moves the peak; sim's TestRowWeakBeamPeakPosition covers that)
+// at the excitation error of g(3g) and g(4g) (s = (n−1)λg²/2), the peak must lie in (0, d*] on the side of
 // sign((g·b)s), and d_peak·s must agree between the two within 15 %
 // (the two-beam s_eff = √(s² + 1/ξ_g²) differs from s by 4–2 % here,
 // and the peak is located to a quarter pixel, 0.013 nm). Repeated with g
@@ -34,7 +35,7 @@ func TestWeakBeamPeakWhereEffectiveSIsZero(t *testing.T) {
 	for _, gs := range []float64{1, -1} {
 		for _, n := range []int{3, 4} {
 			g := vec3{2, 0, 0}.scale(gs)
-			c := dislocationCase{b: "1/2[1 1 0]", line: vec3{1, 1, 0}, g: g, diffr: fmt.Sprintf(`"weak_beam": {"n": %d}`, n), useDF: true, widthNm: 12}
+			c := dislocationCase{b: "1/2[1 1 0]", line: vec3{1, 1, 0}, g: g, diffr: fmt.Sprintf(`"weak_beam": {"n": %d}, "model": "two-beam"`, n), useDF: true, widthNm: 12}
 			st := setup(t, `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
 			  "diffraction": {"g": `+g.json()+`, "beam": [0, 0, 1], `+c.diffr+`},
 			  "foil": {"thickness_nm": 100}, "defects": [],
