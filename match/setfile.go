@@ -106,18 +106,7 @@ func LoadSeries(path string) (*Series, []string, error) {
 		}
 		s.BlurNm = *f.BlurNm
 	}
-	if s.Defect, err = pickDefect(base, f.Vary, f.Defect); err != nil {
-		return nil, nil, err
-	}
-	switch f.Vary {
-	case "", "b":
-		s.Candidates, err = BurgersCandidates(st.Crystal.Cell, f.Candidates, s.Defect)
-	case "nature", "kind":
-		s.Candidates, err = wordCandidates(f.Vary, f.Candidates, s.Defect)
-	default:
-		err = setErr("vary", "%q: want b, nature or kind", f.Vary)
-	}
-	if err != nil {
+	if s.Defect, s.Candidates, err = CandidatesFor(st, f.Vary, f.Candidates, f.Defect); err != nil {
 		return nil, nil, err
 	}
 	if len(f.Micrographs) == 0 {

@@ -28,6 +28,7 @@ type Workspace struct {
 	prof    *profilePanel
 	status  *statusLine
 	micro   *micrographView
+	match   *matchPanel
 	tabs    *container.AppTabs
 
 	onMicrograph []func()
@@ -51,10 +52,12 @@ func NewWorkspace(a fyne.App, win fyne.Window, post func(func())) *Workspace {
 	conditions := conditionsPanel(ws)
 	defects := defectsPanelObject(ws)
 	micro := micrographPanel(ws)
+	matching := matchPanelObject(ws)
 	ws.tabs = container.NewAppTabs(
 		container.NewTabItem("Conditions", conditions),
 		container.NewTabItem("Defects", defects),
 		container.NewTabItem("Micrograph", micro),
+		container.NewTabItem("Match", matching),
 	)
 	ws.board.onShown = ws.revealError
 

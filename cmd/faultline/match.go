@@ -5,7 +5,6 @@ import (
 	"encoding/json"
 	"flag"
 	"fmt"
-	"image"
 	"io"
 	"math"
 	"os"
@@ -142,7 +141,7 @@ func writeSheet(dir string, s *match.Series, ranked []match.Ranked) error {
 	var labels, titles []string
 	var top []figure.SheetCell
 	for _, m := range s.Micrographs {
-		top = append(top, figure.SheetCell{Image: stretchGray(m.Raster, false), Lines: []string{fmt.Sprintf("%s, g at %.0f°", m.Kind, m.GAngleDeg)}})
+		top = append(top, figure.SheetCell{Image: match.Picture(m.Raster, false), Lines: []string{fmt.Sprintf("%s, g at %.0f°", m.Kind, m.GAngleDeg)}})
 		titles = append(titles, filepath.Base(m.Name))
 	}
 	rows = append(rows, top)
@@ -160,7 +159,7 @@ func writeSheet(dir string, s *match.Series, ranked []match.Ranked) error {
 			if c.Flat {
 				l += " (no contrast)"
 			}
-			row = append(row, figure.SheetCell{Image: stretchGray(c.Simulated, true), Lines: []string{l}})
+			row = append(row, figure.SheetCell{Image: match.Picture(c.Simulated, true), Lines: []string{l}})
 		}
 		rows = append(rows, row)
 		label := fmt.Sprintf("%d. %s", r.Rank, r.Candidate.Label)
@@ -174,37 +173,6 @@ func writeSheet(dir string, s *match.Series, ranked []match.Ranked) error {
 		return err
 	}
 	return figure.WritePNG(filepath.Join(dir, "identify.png"), img, nil)
-}
-
-// stretchGray maps a raster onto grey levels between its 0.5th and 99.5th
-// percentiles. A simulation (sim true, intensities as fractions of the
-// incident beam) whose range is under match.ContrastFloor is drawn flat
-// grey: a picture never shows contrast the numbers do not hold. NaN pixels
-// (no data) are black.
-func stretchGray(r *match.Raster, sim bool) *image.Gray {
-	if sim {
-		if lo, hi := finiteRange(r.Pix); !(hi-lo >= match.ContrastFloor) {
-			g := image.NewGray(image.Rect(0, 0, r.W, r.H))
-			for k := range g.Pix {
-				g.Pix[k] = 128
-			}
-			return g
-		}
-	}
-	return figure.Gray(r.Pix, r.W, r.H, figure.Mapping{Mode: figure.ModeAuto, ClipPercent: 0.5})
-}
-
-func finiteRange(x []float64) (lo, hi float64) {
-	lo, hi = math.Inf(1), math.Inf(-1)
-	for _, v := range x {
-		if v < lo {
-			lo = v
-		}
-		if v > hi {
-			hi = v
-		}
-	}
-	return lo, hi
 }
 
 func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error {
