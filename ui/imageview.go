@@ -168,6 +168,14 @@ func (v *imageView) redraw() {
 	v.refreshAll()
 }
 
+// simGAngleDeg is the direction of g in the simulated pictures shown.
+func (v *imageView) simGAngleDeg() float64 {
+	if st := v.ws.ctrl.LastGoodSetup(); st != nil {
+		return st.GAngleDeg
+	}
+	return 0
+}
+
 // updateExtra sets the third panel from the micrograph and the chosen
 // comparison.
 func (v *imageView) updateExtra() {
@@ -179,7 +187,7 @@ func (v *imageView) updateExtra() {
 		}
 		return
 	}
-	ms := newRotatedSource(m.displayGray(v.mapping.Invert), m.Placement)
+	ms := newRotatedSource(m.displayGray(v.mapping.Invert), m.placementOn(v.simGAngleDeg()))
 	switch m.Compare {
 	case compareBlend:
 		base := v.DF.src
@@ -270,7 +278,7 @@ func (v *imageView) hover(x, y float64, in bool) {
 		}
 	}
 	if m := v.ws.micro; m != nil && m.gray != nil && m.Compare != compareOff {
-		if val, ok := m.valueAt(x, y); ok {
+		if val, ok := m.valueAt(x, y, v.simGAngleDeg()); ok {
 			text += fmt.Sprintf("   micrograph %.4g", val)
 		}
 	}

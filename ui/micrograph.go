@@ -77,10 +77,21 @@ func (m *micrographView) displayGray(invert bool) *image.Gray {
 	return m.gray
 }
 
-// valueAt returns the micrograph's value at the specimen point (x, y).
-func (m *micrographView) valueAt(x, y float64) (float64, bool) {
-	v, ok := m.img.ValueAt(m.Placement, x, y)
+// valueAt returns the micrograph's value at the point (x, y) of a
+// simulated picture whose g points at simGAngleDeg.
+func (m *micrographView) valueAt(x, y, simGAngleDeg float64) (float64, bool) {
+	v, ok := m.img.ValueAt(m.placementOn(simGAngleDeg), x, y)
 	return float64(v), ok
+}
+
+// placementOn is the micrograph's placement beside a simulated picture
+// whose g points at simGAngleDeg (0 unless the scene fixes the picture to
+// the specimen with image.x_axis): the micrograph is turned so that its g
+// points the same way.
+func (m *micrographView) placementOn(simGAngleDeg float64) micrograph.Placement {
+	p := m.Placement
+	p.GAngleDeg -= simGAngleDeg
+	return p
 }
 
 // describe is the panel's line about the file.

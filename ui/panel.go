@@ -3,6 +3,7 @@ package ui
 import (
 	"image"
 	"image/color"
+	"math"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/canvas"
@@ -219,21 +220,29 @@ func (r *panelRenderer) place() {
 		r.bar.Resize(fyne.NewSize(barDp, 5))
 		r.barText.Move(fyne.NewPos(pad+6, size.Height-pad-bs.Height-14))
 
-		// g arrow, bottom right: g points right in every image.
+		// g arrow, bottom right: g points right unless the scene fixes
+		// the picture to the specimen (image.x_axis), when it points at
+		// its angle, counter-clockwise as displayed.
 		r.gText.Text = r.p.view.gLabel
 		gs := r.gText.MinSize()
 		const arrow = 36
+		a := r.p.view.simGAngleDeg() * math.Pi / 180
+		dx, dy := float32(math.Cos(a)), float32(-math.Sin(a))
+		ph := max(24, float32(math.Abs(float64(dy)))*arrow+16)
 		pw := arrow + 10 + gs.Width + 12
 		x0 := size.Width - pad - pw
-		yMid := size.Height - pad - 12
-		r.arrowPlate.Move(fyne.NewPos(x0, size.Height-pad-24))
-		r.arrowPlate.Resize(fyne.NewSize(pw, 24))
-		r.shaft.Position1 = fyne.NewPos(x0+6, yMid)
-		r.shaft.Position2 = fyne.NewPos(x0+6+arrow, yMid)
-		r.head1.Position1 = fyne.NewPos(x0+6+arrow-8, yMid-5)
-		r.head1.Position2 = fyne.NewPos(x0+6+arrow, yMid)
-		r.head2.Position1 = fyne.NewPos(x0+6+arrow-8, yMid+5)
-		r.head2.Position2 = fyne.NewPos(x0+6+arrow, yMid)
+		yMid := size.Height - pad - ph/2
+		cx := x0 + 6 + arrow/2
+		r.arrowPlate.Move(fyne.NewPos(x0, size.Height-pad-ph))
+		r.arrowPlate.Resize(fyne.NewSize(pw, ph))
+		tip := fyne.NewPos(cx+dx*arrow/2, yMid+dy*arrow/2)
+		r.shaft.Position1 = fyne.NewPos(cx-dx*arrow/2, yMid-dy*arrow/2)
+		r.shaft.Position2 = tip
+		// The head: two strokes 8 dp back from the tip, 5 dp either side.
+		r.head1.Position1 = fyne.NewPos(tip.X-8*dx-5*dy, tip.Y-8*dy+5*dx)
+		r.head1.Position2 = tip
+		r.head2.Position1 = fyne.NewPos(tip.X-8*dx+5*dy, tip.Y-8*dy-5*dx)
+		r.head2.Position2 = tip
 		r.gText.Move(fyne.NewPos(x0+6+arrow+8, yMid-gs.Height/2))
 	}
 

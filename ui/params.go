@@ -319,6 +319,11 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 	p.Width, p.Height, p.NX, p.NY = width, height, nx, ny
 	blur := b.optionalNumberEntry("image.blur_nm", "none",
 		func(sc *scene.Scene) *float64 { return sc.Image.BlurNm })
+	// The specimen frame: with an x axis the picture stays fixed to the
+	// specimen while g changes (a g·b series keeps its defects in place).
+	xAxis := b.indicesEntry("image.x_axis", true,
+		func(sc *scene.Scene) []float64 { return sc.Image.XAxis })
+	xAxis.SetPlaceHolder("along g")
 	pxInfo := widget.NewLabel("")
 	pxInfo.TextStyle = fyne.TextStyle{Italic: true}
 	imageBox := form(
@@ -327,6 +332,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		formRow("Pixels", container.NewGridWithColumns(2, unit(nx, "×"), unit(ny, "")), board.label("image.pixels")),
 		formRow("", pxInfo),
 		formRow("Blur σ", unit(blur, "nm"), board.label("image.blur_nm")),
+		formRow("x axis [uvw]", unit(xAxis, "fixes the picture to the specimen"), board.label("image.x_axis")),
 	)
 
 	p.Notes = widget.NewLabel("")
