@@ -37,6 +37,79 @@ func Render(ctx context.Context, st *scene.Setup, opt sim.Options) (*sim.Image, 
 	return im, nil
 }
 
+// Record is Render that also keeps the field samples of every column for
+// Replay (see sim.Record), reaching thickness maxThicknessNm and serving
+// the further models also. The samples are nil when they would exceed
+// sim.DefaultSamplesBytes.
+func Record(ctx context.Context, st *scene.Setup, opt sim.Options, maxThicknessNm float64, also []sim.Model) (*sim.Image, *sim.Samples, error) {
+	b := st.Scene.Image.BlurNm
+	if b != nil {
+		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
+			return nil, nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
+	}
+	im, s, err := sim.Record(ctx, st.Problem, sim.RecordOptions{Options: opt, MaxThicknessNm: maxThicknessNm, Also: also})
+	if err != nil {
+		return nil, nil, err
+	}
+	if b != nil {
+		if err := sim.Blur(im, *b); err != nil {
+			return nil, nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
+	}
+	return im, s, nil
+}
+
+// nearbyDeviation is the change of s (1/nm) either way that the samples
+// recorded by Record for the window should serve without fresh columns.
+const nearbyDeviation = 0.01
+
+// NearbyModels returns the setup's model with s shifted by ±0.01 /nm, for
+// Record: slabs that also serve those models let a replay at any s between
+// them reuse every column. Models of other types give none (a replay then
+// integrates afresh only the columns whose slabs fail with the new s).
+func NearbyModels(st *scene.Setup) []sim.Model {
+	switch m := st.Problem.Model.(type) {
+	case sim.TwoBeam:
+		lo, hi := m, m
+		lo.SPerNm -= nearbyDeviation
+		hi.SPerNm += nearbyDeviation
+		return []sim.Model{lo, hi}
+	case sim.Kinematical:
+		lo, hi := m, m
+		lo.SPerNm -= nearbyDeviation
+		hi.SPerNm += nearbyDeviation
+		return []sim.Model{lo, hi}
+	}
+	return nil
+}
+
+// Replay renders the setup's problem from recorded samples (which must
+// serve it, see sim.Samples.Serves), applying the scene's blur: the same
+// image as Render within 1e-4 of the incident beam, without evaluating
+// the displacement field.
+func Replay(ctx context.Context, s *sim.Samples, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
+	if !s.Serves(st.Problem) {
+		return nil, fmt.Errorf("replay: the samples do not serve this setup (%w)", sim.ErrReplayRange)
+	}
+	b := st.Scene.Image.BlurNm
+	if b != nil {
+		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
+			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
+	}
+	im, _, err := s.Replay(ctx, st.Problem.Model, st.Problem.ThicknessNm, opt)
+	if err != nil {
+		return nil, err
+	}
+	if b != nil {
+		if err := sim.Blur(im, *b); err != nil {
+			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
+	}
+	return im, nil
+}
+
 // Indices formats indices as the trade writes them: "2 0 0", "1 -1 0"
 // (crystal.FormatIndices, for the packages that do not import crystal).
 func Indices(v []float64) string { return crystal.FormatIndices(v) }

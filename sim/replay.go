@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"reflect"
 	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -183,6 +184,36 @@ func Record(ctx context.Context, p *Problem, opt RecordOptions) (*Image, *Sample
 		}
 	}
 	return im, s, nil
+}
+
+// Serves reports whether Replay can render p from these samples: the same
+// field (the same value, as a scene's unchanged geometry stage hands on),
+// g, foil normal, grid and tolerance, and a thickness up to the recorded
+// one. The model may differ in anything.
+func (s *Samples) Serves(p *Problem) bool {
+	q := s.p
+	return p.GPerNm == q.GPerNm && p.Normal == q.Normal && p.Grid == q.Grid &&
+		p.Tolerance == q.Tolerance && p.ThicknessNm > 0 && p.ThicknessNm <= q.ThicknessNm &&
+		sameField(p.Field, q.Field)
+}
+
+// sameField reports whether a and b are the same field value: equal
+// pointers, or slices over the same elements, or equal comparable values.
+func sameField(a, b Displacement) bool {
+	if a == nil || b == nil {
+		return a == nil && b == nil
+	}
+	va, vb := reflect.ValueOf(a), reflect.ValueOf(b)
+	if va.Type() != vb.Type() {
+		return false
+	}
+	switch va.Kind() {
+	case reflect.Pointer, reflect.Map, reflect.Func, reflect.Chan, reflect.UnsafePointer:
+		return va.Pointer() == vb.Pointer()
+	case reflect.Slice:
+		return va.Len() == vb.Len() && (va.Len() == 0 || va.Pointer() == vb.Pointer())
+	}
+	return va.Comparable() && va.Equal(vb)
 }
 
 // Replay integrates every column again through the recorded steps with

@@ -104,6 +104,12 @@ type Controller struct {
 	last     *Result // newest result shown (preview or full)
 	lastFull *Result // newest full render
 
+	// samples are the field samples of the newest full render with the
+	// default renderer: a change that leaves the field, g and grid alone
+	// (s, w, thickness, absorption, model constants) is replayed from
+	// them at full resolution, with no preview (see replayable).
+	samples *sim.Samples
+
 	onReplaced []func()
 	onBuilt    []func(st *scene.Setup, err error)
 	onResult   []func(r *Result)
@@ -364,6 +370,12 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 	c.jobStarted = time.Now()
 	job := c.job
 	render := c.Render
+	if s := c.samples; s != nil && render == nil && s.Serves(st.Problem) {
+		c.previewing = false
+		c.replay(ctx, job, s, st, gen, changed)
+		return
+	}
+	record := render == nil
 	if render == nil {
 		render = export.Render
 	}
@@ -413,7 +425,43 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 			})
 		}
 		t0 := time.Now()
-		im, err := render(ctx, st, sim.Options{Workers: workers, Progress: progress})
+		opt := sim.Options{Workers: workers, Progress: progress}
+		var (
+			im      *sim.Image
+			err     error
+			samples *sim.Samples
+		)
+		if record {
+			im, samples, err = export.Record(ctx, st, opt, recordThickness(st), export.NearbyModels(st))
+		} else {
+			im, err = render(ctx, st, opt)
+		}
+		if ctx.Err() != nil {
+			return
+		}
+		if err != nil {
+			post(func() { c.fail(job, err) })
+			return
+		}
+		r := &Result{Setup: st, Image: im, Elapsed: time.Since(t0), Gen: gen}
+		post(func() {
+			if job == c.job {
+				c.samples = samples
+			}
+			c.deliver(job, r, changed)
+		})
+	}()
+}
+
+// replay renders change gen of st from the field samples of an earlier
+// full render, at full resolution.
+func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st *scene.Setup, gen uint64, changed time.Time) {
+	workers, post := c.Workers, c.Post
+	cancel := c.cancel
+	go func() {
+		defer cancel()
+		t0 := time.Now()
+		im, err := export.Replay(ctx, s, st, sim.Options{Workers: workers})
 		if ctx.Err() != nil {
 			return
 		}
@@ -424,6 +472,15 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 		r := &Result{Setup: st, Image: im, Elapsed: time.Since(t0), Gen: gen}
 		post(func() { c.deliver(job, r, changed) })
 	}()
+}
+
+// recordThickness is the thickness the samples of a full render reach: a
+// quarter more than the scene's (within the slider's range), so the
+// thickness slider can be dragged that far up, and anywhere down, before a
+// fresh render is needed; recording that deeper costs the full render
+// about a fifth more.
+func recordThickness(st *scene.Setup) float64 {
+	return math.Max(st.Problem.ThicknessNm, math.Min(thicknessMaxNm, 1.25*st.Problem.ThicknessNm))
 }
 
 // previewDone takes the preview of a job: it is shown, and a change that

@@ -1,15 +1,25 @@
 package ui
 
 import (
+	"context"
+	"math"
 	"sort"
 	"testing"
 	"time"
 
+	"faultline/export"
 	"faultline/scene"
+	"faultline/sim"
 )
 
-// moveLatencies moves the thickness of the demo scene k times as a slider
-// would and returns, for each move, the time from the change to the
+// moveInclusion moves the demo scene's precipitate (defects[1]) to x = x
+// nm: a change of the field, which the window shows as a preview first.
+func moveInclusion(x float64) func(sc *scene.Scene) {
+	return func(sc *scene.Scene) { sc.Defects[1].AtNm[0] = x }
+}
+
+// moveLatencies moves the precipitate of the demo scene k times as a
+// slider would and returns, for each move, the time from the change to the
 // preview being handed to the UI goroutine, and the full render times.
 func moveLatencies(t testing.TB, k int) (preview, full []time.Duration) {
 	p := newPump()
@@ -34,9 +44,8 @@ func moveLatencies(t testing.TB, k int) (preview, full []time.Duration) {
 	}
 	wait(false)
 	for i := 0; i < k; i++ {
-		tNm := 100 + float64(i%20)
 		t0 := time.Now()
-		if err := c.Edit(func(sc *scene.Scene) { sc.Foil.ThicknessNm = tNm }); err != nil {
+		if err := c.Edit(moveInclusion(-89.5 + float64(i%20))); err != nil {
 			t.Fatal(err)
 		}
 		r := wait(true)
@@ -71,8 +80,8 @@ func TestPreviewLatencyDemo(t *testing.T) {
 }
 
 // BenchmarkPreviewAfterSliderMove reports the time from a change of the
-// demo scene's thickness to its preview reaching the UI goroutine
-// (preview-ms) and the full render time (full-ms).
+// demo scene's field (its precipitate moved) to its preview reaching the
+// UI goroutine (preview-ms) and the full render time (full-ms).
 func BenchmarkPreviewAfterSliderMove(b *testing.B) {
 	pv, full := moveLatencies(b, b.N)
 	var sp, sf time.Duration
@@ -85,7 +94,7 @@ func BenchmarkPreviewAfterSliderMove(b *testing.B) {
 	b.ReportMetric(float64(sf.Microseconds())/1000/float64(len(full)), "full-ms")
 }
 
-// BenchmarkPreviewDuringDrag moves the demo scene's thickness every 16 ms
+// BenchmarkPreviewDuringDrag moves the demo scene's precipitate every 16 ms
 // (a slider dragged without pause at 60 events a second) for a second and
 // reports how often a preview reached the UI goroutine (interval-ms) and
 // how old the change it showed was by then (age-ms).
@@ -107,8 +116,7 @@ func BenchmarkPreviewDuringDrag(b *testing.B) {
 		shown, shownAt = nil, nil
 		changed := map[uint64]time.Time{}
 		for k := 0; k < 60; k++ {
-			tNm := 120 + 2*float64(k)
-			c.Edit(func(sc *scene.Scene) { sc.Foil.ThicknessNm = tNm })
+			c.Edit(moveInclusion(-89.75 + 0.5*float64(k)))
 			changed[c.Gen()] = time.Now()
 			p.drain(16 * time.Millisecond)
 		}
@@ -124,4 +132,89 @@ func BenchmarkPreviewDuringDrag(b *testing.B) {
 	}
 	b.ReportMetric(float64(median(ages).Microseconds())/1000, "age-ms")
 	b.ReportMetric(float64(median(gaps).Microseconds())/1000, "interval-ms")
+}
+
+// sliderLatencies renders the demo scene at 256² and then makes k changes
+// with edit (an s or thickness slider move), returning for each the time
+// from the change to its full-resolution image reaching the UI goroutine,
+// and the last result.
+func sliderLatencies(t testing.TB, k int, edit func(i int) func(sc *scene.Scene)) ([]time.Duration, *Result, time.Duration) {
+	p := newPump()
+	c := NewController(p.post)
+	var got []*Result
+	c.OnResult(func(r *Result) { got = append(got, r) })
+	sc := demoScene(t)
+	sc.Image.Pixels = []int{256, 256}
+	c.Replace(sc, "", true)
+	p.until(t, 120*time.Second, "first full render", func() bool { return c.LastFull() != nil })
+	cold := c.LastFull().Elapsed
+	var lat []time.Duration
+	for i := 0; i < k; i++ {
+		got = nil
+		t0 := time.Now()
+		if err := c.Edit(edit(i)); err != nil {
+			t.Fatal(err)
+		}
+		p.until(t, 120*time.Second, "full image after a slider move", func() bool {
+			return c.LastFull() != nil && c.LastFull().Gen == c.Gen()
+		})
+		lat = append(lat, time.Since(t0))
+		for _, r := range got {
+			if r.Preview {
+				t.Fatalf("move %d: a preview was shown before the full image", i)
+			}
+		}
+	}
+	c.Close()
+	return lat, c.LastFull(), cold
+}
+
+func moveS(i int) func(sc *scene.Scene) {
+	s := 0.004 + 0.0005*float64(i%10)
+	return func(sc *scene.Scene) { sc.Diffraction.SPerNm = &s }
+}
+
+func moveThickness(i int) func(sc *scene.Scene) {
+	return func(sc *scene.Scene) { sc.Foil.ThicknessNm = 120 - float64(i%20) }
+}
+
+// After an s or thickness slider move the demo scene's 256² image is shown
+// at full resolution with no preview first (replayed from the field
+// samples of the previous full render), and it is the image a fresh render
+// gives, within 1e-4 of the incident beam.
+func TestSliderMovesShowFullImage(t *testing.T) {
+	for name, edit := range map[string]func(int) func(*scene.Scene){"s": moveS, "thickness": moveThickness} {
+		lat, last, cold := sliderLatencies(t, 3, edit)
+		t.Logf("%s: full image %v after a move (median of %d); cold render %v", name, median(lat), len(lat), cold)
+		g := last.Image.Grid
+		if g.NX != 256 || g.NY != 256 {
+			t.Fatalf("%s: image %d×%d, want 256²", name, g.NX, g.NY)
+		}
+		want, err := export.Render(context.Background(), last.Setup, sim.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		worst := 0.0
+		for k := range want.Intensity {
+			for n := range want.Intensity[k] {
+				worst = math.Max(worst, math.Abs(want.Intensity[k][n]-last.Image.Intensity[k][n]))
+			}
+		}
+		if worst > 1e-4 {
+			t.Errorf("%s: the replayed image differs from a fresh render by %.3g", name, worst)
+		}
+	}
+}
+
+// BenchmarkFullAfterSMove and BenchmarkFullAfterThicknessMove report the
+// time from an s (thickness) slider move on the demo scene at 256² to its
+// full-resolution image reaching the UI goroutine (full-ms, median), and
+// the cold render of the scene (cold-ms).
+func BenchmarkFullAfterSMove(b *testing.B)         { benchSlider(b, moveS) }
+func BenchmarkFullAfterThicknessMove(b *testing.B) { benchSlider(b, moveThickness) }
+
+func benchSlider(b *testing.B, edit func(int) func(*scene.Scene)) {
+	lat, _, cold := sliderLatencies(b, max(b.N, 5), edit)
+	b.ReportMetric(float64(median(lat).Microseconds())/1000, "full-ms")
+	b.ReportMetric(float64(cold.Microseconds())/1000, "cold-ms")
 }
