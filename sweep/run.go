@@ -10,6 +10,7 @@ import (
 	"runtime"
 	"sort"
 	"strconv"
+	"strings"
 	"sync"
 	"time"
 
@@ -172,6 +173,19 @@ feed:
 // returns their ks.
 func restart(dir, mpath string, sw *Sweep, sh Shard) (map[int]bool, error) {
 	done := map[int]bool{}
+	// Temporary directories of this shard's jobs left by a killed run
+	// (other shards may be writing theirs now).
+	if entries, err := os.ReadDir(filepath.Join(dir, "jobs")); err == nil {
+		for _, e := range entries {
+			name, _, ok := strings.Cut(strings.TrimPrefix(e.Name(), "."), ".tmp-")
+			k, err := strconv.Atoi(name)
+			if ok && err == nil && strings.HasPrefix(e.Name(), ".") && sh.Has(k) {
+				if err := os.RemoveAll(filepath.Join(dir, "jobs", e.Name())); err != nil {
+					return nil, err
+				}
+			}
+		}
+	}
 	recs, torn, err := readManifest(mpath)
 	if errors.Is(err, os.ErrNotExist) {
 		return done, nil

@@ -185,3 +185,75 @@ func TestSweepOnSlurm(t *testing.T) {
 	}
 	sameFiles(t, "Slurm run vs local run", want, got)
 }
+
+// Restart: a shard killed (SIGKILL) part way and run again completes with
+// no duplicate or missing job, and its files equal an uninterrupted run's.
+func TestSweepKilledAndRestarted(t *testing.T) {
+	sw := writeSweep(t, strings.Replace(sweep12, `"values": [60, 80, 100, 120]`, `"values": [60, 70, 80, 90, 100, 110, 120]`, 1))
+	out := filepath.Join(t.TempDir(), "killed")
+	manifest := filepath.Join(out, "manifest-1.jsonl")
+	kills := 0
+	for attempt := 0; attempt < 3; attempt++ {
+		cmd := exec.Command(cliPath, "sweep", sw, "-o", out, "--shard", "1/2", "--workers", "2")
+		if err := cmd.Start(); err != nil {
+			t.Fatal(err)
+		}
+		done := make(chan error, 1)
+		go func() { done <- cmd.Wait() }()
+		// Kill once a few more jobs are recorded than before.
+		before := countLines(manifest)
+		killed := false
+		deadline := time.Now().Add(60 * time.Second)
+	wait:
+		for time.Now().Before(deadline) {
+			select {
+			case <-done:
+				break wait
+			default:
+			}
+			if countLines(manifest) >= before+3 {
+				cmd.Process.Kill()
+				<-done
+				killed = true
+				kills++
+				break
+			}
+			time.Sleep(20 * time.Millisecond)
+		}
+		if !killed {
+			break
+		}
+	}
+	if kills == 0 {
+		t.Fatal("the shard finished before it could be killed")
+	}
+	if _, stderr, code := cli(t, "sweep", sw, "-o", out, "--shard", "1/2"); code != 0 {
+		t.Fatalf("restart: exit %d: %s", code, stderr)
+	}
+	if _, stderr, code := cli(t, "sweep", sw, "-o", out, "--shard", "0/2"); code != 0 {
+		t.Fatalf("shard 0/2: exit %d: %s", code, stderr)
+	}
+	stdout, stderr, code := cli(t, "sweep", "merge", out)
+	if code != 0 || !strings.Contains(stdout, "all 21 jobs done and verified") {
+		t.Fatalf("merge after %d kills: exit %d: %s%s", kills, code, stdout, stderr)
+	}
+	if n := countLines(manifest); n != 10 {
+		t.Errorf("manifest-1 holds %d records after restart, want the shard's 10 jobs once each", n)
+	}
+	entries, _ := os.ReadDir(filepath.Join(out, "jobs"))
+	for _, e := range entries {
+		if strings.Contains(e.Name(), ".tmp-") {
+			t.Errorf("jobs/%s: a temporary directory left after the restart", e.Name())
+		}
+	}
+	sameFiles(t, "killed and restarted vs local run", sweepFiles(t, localRun(t, sw)), sweepFiles(t, out))
+}
+
+// countLines counts the complete lines of a file (0 if it is missing).
+func countLines(path string) int {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return 0
+	}
+	return bytes.Count(data, []byte("\n"))
+}
