@@ -183,6 +183,19 @@ func parseFile(data []byte) (File, error) {
 // New checks a sweep against its base scene and expands its axes.
 // sceneDir is the directory the scene's relative paths start from.
 func New(f File, base *scene.Scene, sceneDir string, force bool) (*Sweep, error) {
+	sw, err := expand(f, base, sceneDir, force)
+	if err != nil {
+		return nil, err
+	}
+	if err := sw.checkValues(); err != nil {
+		return nil, err
+	}
+	return sw, nil
+}
+
+// expand checks the sweep file on its own and expands its axes, without
+// trying its values on the scene.
+func expand(f File, base *scene.Scene, sceneDir string, force bool) (*Sweep, error) {
 	if f.Version != FileVersion {
 		return nil, errf("version", "is %d; this Faultline reads sweep files of version %d", f.Version, FileVersion)
 	}
@@ -281,9 +294,6 @@ func New(f File, base *scene.Scene, sceneDir string, force bool) (*Sweep, error)
 	}
 	if sw.Jobs > MaxJobs && !force {
 		return nil, errf("axes", "the sweep has %d jobs, more than %d; give --force to run it anyway", sw.Jobs, MaxJobs)
-	}
-	if err := sw.checkValues(); err != nil {
-		return nil, err
 	}
 	sw.Hash = sw.hash()
 	return sw, nil
@@ -424,22 +434,22 @@ func checkDistribution(p string, a Axis) error {
 	return nil
 }
 
-// checkValues applies every value of every axis to the base scene alone,
-// so an unknown path or a value of the wrong type for its path is found
-// before any job runs. A combination that is only wrong together (g not
+// checkValues applies every value of every axis to the base scene alone
+// (of a range, its first and last: the values between are numbers of the
+// same kind), so an unknown path or a value of the wrong type for its
+// path is found before any job runs. A combination that is only wrong together (g not
 // perpendicular to the beam) fails as a job, with its one-line error.
 func (sw *Sweep) checkValues() error {
 	for i, a := range sw.File.Axes {
 		p := fmt.Sprintf("axes[%d]", i)
 		var vals []json.RawMessage
 		switch {
+		case sw.Axes != nil && a.Range != nil:
+			vals = []json.RawMessage{sw.Axes[i][0], sw.Axes[i][len(sw.Axes[i])-1]}
+			p += ".range"
 		case sw.Axes != nil:
 			vals = sw.Axes[i]
-			if a.Range != nil {
-				p += ".range"
-			} else {
-				p += ".values"
-			}
+			p += ".values"
 		case a.Distribution == "choice":
 			vals = a.Values
 			p += ".values"
@@ -457,7 +467,7 @@ func (sw *Sweep) checkValues() error {
 			sc := cloneScene(sw.Base)
 			if err := setOverride(sc, a.Path, v); err != nil {
 				vp := p
-				if len(vals) > 1 || a.Values != nil {
+				if a.Values != nil {
 					vp = fmt.Sprintf("%s[%d]", p, j)
 				}
 				return &Error{Path: vp, Msg: fmt.Sprintf("%s = %s: %v", a.Path, compact(v), err), Err: err}

@@ -132,7 +132,8 @@ func OpenDir(dir string) (*Sweep, error) {
 	if err := json.Unmarshal(data, &p); err != nil || p.Scene == nil {
 		return nil, errf("", "%s: not a sweep plan", filepath.Join(dir, PlanName))
 	}
-	sw, err := New(p.Sweep, p.Scene, p.SceneDir, true)
+	// Checked when the plan was written; only expanded here.
+	sw, err := expand(p.Sweep, p.Scene, p.SceneDir, true)
 	if err != nil {
 		return nil, err
 	}

@@ -25,7 +25,7 @@ const testScene = `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {
              {"type": "loop", "b": "1/3[1 1 1]", "normal": [1, 1, 1], "radius_nm": 5, "at_nm": [10, 10, 40]}],
  "image": {"width_nm": 60, "height_nm": 60, "pixels": [12, 12]}}`
 
-func load(t testing.TB, sweepText string) *Sweep {
+func load(t testing.TB, sweepText string, force ...bool) *Sweep {
 	t.Helper()
 	dir := t.TempDir()
 	if err := os.WriteFile(filepath.Join(dir, "base.json"), []byte(testScene), 0o644); err != nil {
@@ -35,7 +35,7 @@ func load(t testing.TB, sweepText string) *Sweep {
 	if err := os.WriteFile(p, []byte(sweepText), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	sw, err := Load(p, false)
+	sw, err := Load(p, len(force) > 0 && force[0])
 	if err != nil {
 		t.Fatal(err)
 	}
