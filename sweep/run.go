@@ -113,8 +113,12 @@ func Run(ctx context.Context, sw *Sweep, dir string, opt RunOptions) (*Summary, 
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			// One builder per worker: consecutive jobs that change only
+			// the conditions (t, s) reuse the material and the defects'
+			// fields.
+			var b scene.Builder
 			for k := range jobs {
-				r, err := sw.runJob(ctx, dir, k, opt.Shard, opt.Version)
+				r, err := sw.runJob(ctx, &b, dir, k, opt.Shard, opt.Version)
 				if err == nil {
 					err = mw.append(r)
 				}
@@ -230,7 +234,7 @@ func restart(dir, mpath string, sw *Sweep, sh Shard) (map[int]bool, error) {
 // either absent or whole. A scene that is invalid, fails to build or
 // fails to render gives a failed record; only a failure to write (or a
 // cancelled context) is an error.
-func (sw *Sweep) runJob(ctx context.Context, dir string, k int, sh Shard, version string) (Record, error) {
+func (sw *Sweep) runJob(ctx context.Context, b *scene.Builder, dir string, k int, sh Shard, version string) (Record, error) {
 	start := time.Now()
 	r := Record{K: k, Shard: sh.String(), Sweep: sw.Hash, Version: version}
 	fail := func(err error) (Record, error) {
@@ -244,7 +248,7 @@ func (sw *Sweep) runJob(ctx context.Context, dir string, k int, sh Shard, versio
 	if err != nil {
 		return fail(err)
 	}
-	st, err := scene.Build(sc, sw.SceneDir)
+	st, err := b.Build(sc, sw.SceneDir)
 	if err != nil {
 		return fail(err)
 	}
