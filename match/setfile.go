@@ -27,9 +27,8 @@ const SetVersion = 1
 // "vary" is "b" (the default: candidates are Burgers vectors or families),
 // "nature" (a loop: candidates vacancy and interstitial unless listed) or
 // "kind" (a fault: intrinsic and extrinsic unless listed). "defect" picks
-// the varied defect (default: the first dislocation, dissociated
-// dislocation or loop for b, the first loop for nature, the first fault
-// for kind).
+// the varied defect (default: the first dislocation or loop for b, the
+// first loop for nature, the first fault for kind).
 type SetFile struct {
 	Version     int          `json:"version"`
 	Scene       string       `json:"scene"`
@@ -166,7 +165,9 @@ func LoadSeries(path string) (*Series, []string, error) {
 // pickDefect returns the index of the varied defect.
 func pickDefect(sc *scene.Scene, vary string, given *int) (int, error) {
 	want := map[string][]string{
-		"": {"dislocation", "dissociated", "loop"}, "b": {"dislocation", "dissociated", "loop"},
+		// A dissociated dislocation is not varied: its b is the sum of
+		// its partials, which a trial b alone would contradict.
+		"": {"dislocation", "loop"}, "b": {"dislocation", "loop"},
 		"nature": {"loop"}, "kind": {"fault"},
 	}[vary]
 	if given != nil {

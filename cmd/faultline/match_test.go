@@ -168,3 +168,27 @@ func TestIdentifyBadInput(t *testing.T) {
 		t.Errorf("small micrograph: exit %d, stderr %q", code, stderr.String())
 	}
 }
+
+// A dissociated dislocation's b is the sum of its partials: it is not the
+// default varied defect, and naming it is refused.
+func TestIdentifySkipsDissociated(t *testing.T) {
+	dir := seriesDir(t)
+	base := `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], "w": 0.5}, "foil": {"thickness_nm": 90},
+	  "defects": [
+	    {"type": "dissociated", "b": "1/2[1 0 -1]", "line": [1, -1, 0], "plane": [1, 1, 1], "at_nm": [0, 20, 45], "partials": ["1/6[2 -1 -1]", "1/6[1 1 -2]"], "separation_nm": 6},
+	    {"type": "dislocation", "b": "1/2[1 0 1]", "line": [1, -1, 0], "at_nm": [0, 0, 45], "elasticity": "isotropic"}],
+	  "image": {"width_nm": 100, "height_nm": 100, "pixels": [50, 50]}}`
+	writeSet(t, dir, "two.json", base)
+	set := writeSet(t, dir, "set2.json", strings.Replace(strings.Replace(goodSet, "base.json", "two.json", 1), `"candidates": ["1/2<110>"]`, `"candidates": ["1/2[1 0 1]"]`, 1))
+	var stdout, stderr bytes.Buffer
+	if code := run(context.Background(), []string{"identify", set, "--json"}, &stdout, &stderr); code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr.String())
+	}
+	named := writeSet(t, dir, "set3.json", strings.Replace(strings.Replace(goodSet, "base.json", "two.json", 1), `"candidates"`, `"defect": 0, "candidates"`, 1))
+	stdout.Reset()
+	stderr.Reset()
+	if code := run(context.Background(), []string{"identify", named}, &stdout, &stderr); code != exitBadInput || !strings.Contains(stderr.String(), "defects[0] is a dissociated") {
+		t.Errorf("naming the dissociated dislocation: exit %d, %q", code, stderr.String())
+	}
+}
