@@ -152,7 +152,7 @@ func (st *Setup) sideWords(gb float64, u r3.Vec) string {
 		side = r3.Scale(-1, side)
 		rel = "< 0"
 	}
-	return fmt.Sprintf("(g·b)s %s → image on the %s side of the line (g points right)", rel, pictureDirection(side))
+	return fmt.Sprintf("(g·b)s %s → image on the %s side of the line (g points %s)", rel, st.pictureDirection(side), st.gWord())
 }
 
 // faultReading: kind, α, and the outer fringes.
@@ -185,7 +185,7 @@ func (st *Setup) faultReading(d *Defect, n, R r3.Vec) string {
 	top := r3.Scale(math.Copysign(1, n.Z), r3.Vec{X: n.X, Y: n.Y})
 	word := map[bool]string{true: "bright", false: "dark"}
 	fmt.Fprintf(&b, "; thick foil near s = 0: bright-field outer fringes %s; dark field: %s at the top end (%s), %s at the bottom end",
-		word[bright], word[bright], pictureDirection(top), word[!bright])
+		word[bright], word[bright], st.pictureDirection(top), word[!bright])
 	brightEnd := top
 	if !bright {
 		brightEnd = r3.Scale(-1, top)
@@ -347,9 +347,9 @@ func (st *Setup) inclusionReading(d *Defect) string {
 	light := map[bool]string{true: "bright", false: "dark"}[sign > 0]
 	switch {
 	case z < 0.25*st.XiGNm:
-		fmt.Fprintf(&w, "; near the entrance surface at s ≈ 0 the lobe on the side g points to (right) is %s in bright and dark field", dark)
+		fmt.Fprintf(&w, "; near the entrance surface at s ≈ 0 the lobe on the side g points to (%s) is %s in bright and dark field", st.gWord(), dark)
 	case t-z < 0.25*st.XiGNm:
-		fmt.Fprintf(&w, "; near the exit surface at s ≈ 0 the lobe on the side g points to (right) is %s in dark field and %s in bright field", dark, light)
+		fmt.Fprintf(&w, "; near the exit surface at s ≈ 0 the lobe on the side g points to (%s) is %s in dark field and %s in bright field", st.gWord(), dark, light)
 	default:
 		w.WriteString("; deeper than ξ_g/4 from both surfaces the lobes' sense depends on depth")
 	}
@@ -397,11 +397,24 @@ func fmtFrac(v float64) string {
 	return fmt.Sprintf("%+.2f", v)
 }
 
-// pictureDirection names the direction of an image-frame vector in the
-// picture (x to the right, y down): right, upper right, up, … .
-func pictureDirection(v r3.Vec) string {
-	a := math.Atan2(-v.Y, v.X) * 180 / math.Pi // anticlockwise from right
+// pictureDirection names the direction, as displayed, of a vector in the
+// frame of g (x along g, y = z × x): right, upper right, up, … . The
+// picture shows that frame turned by GAngleDeg (0 unless image.x_axis
+// fixes the picture to the specimen).
+func (st *Setup) pictureDirection(v r3.Vec) string {
+	return directionName(math.Atan2(-v.Y, v.X)*180/math.Pi + st.GAngleDeg)
+}
+
+// gWord names the direction g points in the picture.
+func (st *Setup) gWord() string { return directionName(st.GAngleDeg) }
+
+// directionName names a direction in the picture given by its angle in
+// degrees, counter-clockwise from right as displayed.
+func directionName(deg float64) string {
 	names := []string{"right", "upper right", "upper", "upper left", "left", "lower left", "lower", "lower right"}
-	k := int(math.Floor((a+22.5)/45+8)) % 8
+	k := int(math.Floor(deg/45+0.5)) % 8
+	if k < 0 {
+		k += 8
+	}
 	return names[k]
 }

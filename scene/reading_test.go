@@ -20,7 +20,8 @@ func TestFaultAngleDeg(t *testing.T) {
 	}
 }
 
-// Directions in the picture: x to the right, y down.
+// Directions in the picture: x to the right, y down; with the picture
+// turned (image.x_axis), g and every direction turn with it.
 func TestPictureDirection(t *testing.T) {
 	for _, c := range []struct {
 		v    r3.Vec
@@ -29,7 +30,7 @@ func TestPictureDirection(t *testing.T) {
 		{r3.Vec{X: 1}, "right"}, {r3.Vec{X: -1}, "left"}, {r3.Vec{Y: 1}, "lower"}, {r3.Vec{Y: -1}, "upper"},
 		{r3.Vec{X: 1, Y: 1}, "lower right"}, {r3.Vec{X: -1, Y: -1}, "upper left"}, {r3.Vec{X: 1, Y: -0.3}, "right"},
 	} {
-		if got := pictureDirection(c.v); got != c.want {
+		if got := (&Setup{}).pictureDirection(c.v); got != c.want {
 			t.Errorf("pictureDirection(%v) = %q, want %q", c.v, got, c.want)
 		}
 	}
@@ -43,5 +44,18 @@ func TestFmtFrac(t *testing.T) {
 		if got := fmtFrac(c.v); got != c.want {
 			t.Errorf("fmtFrac(%g) = %q, want %q", c.v, got, c.want)
 		}
+	}
+}
+
+func TestPictureDirectionTurned(t *testing.T) {
+	st := &Setup{GAngleDeg: 90}
+	if got := st.gWord(); got != "upper" {
+		t.Errorf("g at 90°: %q, want upper", got)
+	}
+	if got := st.pictureDirection(r3.Vec{Y: 1}); got != "right" {
+		t.Errorf("+y of the frame of g with g at 90°: %q, want right", got)
+	}
+	if got := (&Setup{GAngleDeg: -135}).gWord(); got != "lower left" {
+		t.Errorf("g at −135°: %q, want lower left", got)
 	}
 }
