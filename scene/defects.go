@@ -124,9 +124,12 @@ func (st *Setup) buildDefect(path string, d *Defect) (defects.Field, error) {
 		f, err = defects.NewDislocation(b, line, at, m, aniso)
 	case "fault":
 		n := rd.planeNormal(path+".plane", d.Plane)
-		shift := rd.burgers(path+".shift", d.Shift)
+		shiftText, shift := rd.faultShift(path, d)
 		if rd.err != nil {
 			return nil, rd.err
+		}
+		if d.Kind != "" {
+			st.Notes = append(st.Notes, fmt.Sprintf("%s: %s fault on %s: R = %s (on the side the plane normal points to)", path, d.Kind, fmtPlane(d.Plane), shiftText))
 		}
 		if d.Edge == nil {
 			f, err = defects.NewFault(at, n, shift)
@@ -170,10 +173,12 @@ func (st *Setup) buildDefect(path string, d *Defect) (defects.Field, error) {
 		f, err = defects.NewDissociated(b, b1, b2, line, at, n, sep, m, aniso)
 	case "loop":
 		m := rd.medium(path)
-		b := rd.burgers(path+".b", d.B)
-		n := rd.direction(path+".normal", d.Normal)
+		b, n, reversed := rd.loopBurgers(path, d)
 		if rd.err != nil {
 			return nil, rd.err
+		}
+		if reversed {
+			st.Notes = append(st.Notes, fmt.Sprintf("%s: %s loop: b = −(%s), so that b·n %s 0", path, d.Nature, d.B, map[bool]string{true: ">", false: "<"}[d.Nature == "vacancy"]))
 		}
 		f, err = defects.NewLoop(at, n, b, *d.RadiusNm, m)
 	case "cavity":
@@ -192,7 +197,7 @@ func (st *Setup) buildDefect(path string, d *Defect) (defects.Field, error) {
 			}
 			// Ashby & Brown (1963): ε = δ(1+ν)/(3(1−ν)).
 			strain = defects.StrainFromMisfit(*d.Misfit, m.Poisson)
-			st.Notes = append(st.Notes, fmt.Sprintf("%s: misfit %g gives constrained strain ε = %.4g (ν = %.3g)", path, *d.Misfit, strain, m.Poisson))
+			st.Notes = append(st.Notes, fmt.Sprintf("%s: misfit %g (%s) gives constrained strain ε = %.4g (ν = %.3g)", path, *d.Misfit, expanding(*d.Misfit), strain, m.Poisson))
 		}
 		f, err = defects.NewInclusion(at, *d.RadiusNm, strain)
 	}
@@ -267,4 +272,16 @@ func (st *Setup) checkDissociation(path string, d *Defect) error {
 		}
 	}
 	return nil
+}
+
+// expanding names the sign of an inclusion's misfit or strain: an
+// expanding inclusion (> 0) is larger than its hole.
+func expanding(x float64) string {
+	switch {
+	case x > 0:
+		return "expanding"
+	case x < 0:
+		return "contracting"
+	}
+	return "no misfit"
 }

@@ -209,14 +209,20 @@ var defectSpecs = []DefectSpec{
 		Type: "fault", Noun: "a fault",
 		Fields: []FieldSpec{
 			{Name: "plane", Label: "Fault plane (hkl)", Kind: Plane, Required: true, Default: []float64{1, 1, 1}},
-			{Name: "shift", Label: "Shift R", Kind: Burgers, Required: true, Default: "1/3[1 1 1]", Help: "e.g. 1/3[1 1 1]"},
+			{Name: "kind", Label: "Kind", Kind: Choice, Options: FaultKinds, Default: "intrinsic",
+				Help: "intrinsic or extrinsic on a cubic {111} plane; I1, I2 or E on the basal plane of hcp"},
+			{Name: "shift", Label: "Shift R", Kind: Burgers, Default: "1/3[-1 -1 -1]",
+				Help: "moves the side the plane normal points to; e.g. 1/3[-1 -1 -1] (intrinsic on (1 1 1))"},
 			atField,
 			{Name: "edge", Label: "Bounded along [uvw]", Kind: Direction, Help: "optional: the direction of the strip's edges, in the plane"},
 			{Name: "bounds_nm", Label: "Strip from, to", Kind: Interval, Range: positionRange,
 				Help: "optional: the strip's edges, nm from the position along n × edge"},
 		},
-		Groups: []GroupSpec{{Rule: Together, Fields: []string{"edge", "bounds_nm"}, Label: "a bounded fault"}},
-		List:   []string{"plane", "shift", "at_nm"},
+		Groups: []GroupSpec{
+			{Rule: OneOf, Fields: []string{"kind", "shift"}, Label: "Fault vector from", Names: []string{"kind", "shift R"}},
+			{Rule: Together, Fields: []string{"edge", "bounds_nm"}, Label: "a bounded fault"},
+		},
+		List: []string{"plane", "kind", "shift", "at_nm"},
 	},
 	{
 		Type: "inclusion", Noun: "an inclusion",
@@ -234,10 +240,12 @@ var defectSpecs = []DefectSpec{
 		Fields: []FieldSpec{
 			{Name: "normal", Label: "Loop normal [uvw]", Kind: Direction, Required: true, Default: []float64{1, 1, 1}},
 			{Name: "b", Label: "Burgers vector b", Kind: Burgers, Required: true, Default: "1/3[1 1 1]", Help: "e.g. 1/3[1 1 1]"},
+			{Name: "nature", Label: "Nature", Kind: Choice, Options: []string{"vacancy", "interstitial"},
+				Help: "optional: sets the sign of b (vacancy: b·n > 0); left out, b is taken as written"},
 			radiusField(15),
 			atField,
 		},
-		List: []string{"b", "radius_nm", "at_nm"},
+		List: []string{"nature", "b", "radius_nm", "at_nm"},
 	},
 	{
 		Type: "cavity", Noun: "a cavity",

@@ -97,14 +97,13 @@ func (st *Setup) reading(d *Defect) (string, error) {
 			fmtFrac(r3.Dot(g, b1)), fmtFrac(r3.Dot(g, b2)), a, st.sideWords(r3.Dot(g, r3.Add(b1, b2)), r3.Unit(u))), nil
 	case "fault":
 		n := rd.planeNormal("plane", d.Plane)
-		R := rd.burgers("shift", d.Shift)
+		text, R := rd.faultShift("", d)
 		if rd.err != nil {
 			return "", rd.err
 		}
-		return st.faultReading(d, r3.Unit(n), R), nil
+		return st.faultReading(d, text, r3.Unit(n), R), nil
 	case "loop":
-		b := rd.burgers("b", d.B)
-		n := rd.direction("normal", d.Normal)
+		b, n, _ := rd.loopBurgers("", d)
 		if rd.err != nil {
 			return "", rd.err
 		}
@@ -156,17 +155,24 @@ func (st *Setup) sideWords(gb float64, u r3.Vec) string {
 }
 
 // faultReading: kind, α, and the outer fringes.
-func (st *Setup) faultReading(d *Defect, n, R r3.Vec) string {
+func (st *Setup) faultReading(d *Defect, shift string, n, R r3.Vec) string {
 	g := st.gVec()
 	alpha := faultAngleDeg(r3.Dot(g, R))
 	var b strings.Builder
-	kind := st.faultKind(d, n, R)
-	if kind != "" {
-		fmt.Fprintf(&b, "%s (R = %s on %s), ", kind, d.Shift, fmtPlane(d.Plane))
-	} else {
-		fmt.Fprintf(&b, "R = %s on %s, ", d.Shift, fmtPlane(d.Plane))
+	kind := d.Kind
+	if kind == "" {
+		kind = st.faultKind(d, n, R)
 	}
-	fmt.Fprintf(&b, "α = %+.0f°", alpha)
+	if kind != "" {
+		fmt.Fprintf(&b, "%s (R = %s on %s), ", kind, shift, fmtPlane(d.Plane))
+	} else {
+		fmt.Fprintf(&b, "R = %s on %s, ", shift, fmtPlane(d.Plane))
+	}
+	if math.Abs(alpha) < 0.5 {
+		b.WriteString("α = 0°")
+	} else {
+		fmt.Fprintf(&b, "α = %+.0f°", alpha)
+	}
 	switch {
 	case math.Abs(alpha) < 0.5:
 		b.WriteString(": invisible (g·R a whole number)")

@@ -126,6 +126,13 @@ type Defect struct {
 	Misfit       *float64  `json:"misfit,omitempty"`
 	Normal       []float64 `json:"normal,omitempty"`
 	Elasticity   string    `json:"elasticity,omitempty"`
+	// Kind names a fault instead of its shift: "intrinsic" or
+	// "extrinsic" on a {111} plane of a cubic crystal, "I1", "I2" or "E"
+	// on the basal plane of a hexagonal one (see FaultKindShift).
+	Kind string `json:"kind,omitempty"`
+	// Nature, "vacancy" or "interstitial", fixes the sign of a loop's b
+	// (b gives its direction and length): b·n > 0 for a vacancy loop.
+	Nature string `json:"nature,omitempty"`
 	// Edge and BoundsNm bound a fault to a strip of its plane: the
 	// bounding lines run along the direction Edge [uvw], and the strip
 	// spans the in-plane distances BoundsNm [from, to] from at_nm measured

@@ -21,7 +21,8 @@ const (
 	extrinsic111 = "1/3[1 1 1]"
 )
 
-// outerFringes renders an inclined (1 1 1) fault in copper at s = 0 and
+// outerFringes renders an inclined (1 1 1) fault in copper at s = 0 (its
+// vector given by the JSON fields vector: a shift or a kind) and
 // returns the mean contrast (intensity minus the perfect crystal's) of the
 // outer fringe at the top end T (where the fault meets the entrance
 // surface) and at the bottom end B, in bright and dark field, and the
@@ -35,12 +36,12 @@ const (
 // 0.05–0.4 ξ_g below the entrance surface (T) or above the exit surface
 // (B): the first fringe of a fault with |α| = 2π/3 (its first extremum
 // is at about 0.2 ξ_g).
-func outerFringes(t *testing.T, g, beam vec3, shift string) (bfT, bfB, dfT, dfB, xT float64, reading string) {
+func outerFringes(t *testing.T, g, beam vec3, vector string) (bfT, bfB, dfT, dfB, xT float64, reading string) {
 	t.Helper()
 	text := `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
 	  "diffraction": {"g": ` + g.json() + `, "beam": ` + beam.json() + `, "w": 0},
 	  "foil": {"thickness_nm": %[1]g},
-	  "defects": [{"type": "fault", "plane": [1, 1, 1], "shift": "` + shift + `", "at_nm": [0, 0, %[2]g]}],
+	  "defects": [{"type": "fault", "plane": [1, 1, 1], ` + vector + `, "at_nm": [0, 0, %[2]g]}],
 	  "image": {"width_nm": %[3]g, "height_nm": %[4]g, "pixels": [%[5]d, 1]}}`
 	xi := setup(t, fmt.Sprintf(text, 100.0, 50.0, 10.0, 1.0, 10)).XiGNm
 	th := 5.4 * xi
@@ -111,7 +112,8 @@ func fringeSign(c float64) int {
 // has n_z > 0 lies towards +n_h, so g·n_h > 0 means g points to the top.
 //
 // Each g is used both ways round (g and −g), which swaps the end g points
-// to; the foil is 5.4 ξ_g thick for every g.
+// to; the foil is 5.4 ξ_g thick for every g. Each fault is given once by
+// its shift and once by its kind, for which the program works out R.
 func TestFaultTypeFromOuterFringes(t *testing.T) {
 	families := []struct {
 		family  string
@@ -130,11 +132,16 @@ func TestFaultTypeFromOuterFringes(t *testing.T) {
 			g := f.g.scale(gs)
 			for _, kind := range []struct {
 				name      string
-				shift     string
+				vector    string
 				intrinsic bool
-			}{{"intrinsic", intrinsic111, true}, {"extrinsic", extrinsic111, false}} {
-				name := fmt.Sprintf("%s g=%v %s", f.family, g, kind.name)
-				bfT, bfB, dfT, dfB, xT, reading := outerFringes(t, g, f.beam, kind.shift)
+			}{
+				{"intrinsic", `"shift": "` + intrinsic111 + `"`, true},
+				{"extrinsic", `"shift": "` + extrinsic111 + `"`, false},
+				{"intrinsic", `"kind": "intrinsic"`, true},
+				{"extrinsic", `"kind": "extrinsic"`, false},
+			} {
+				name := fmt.Sprintf("%s g=%v %s", f.family, g, kind.vector)
+				bfT, bfB, dfT, dfB, xT, reading := outerFringes(t, g, f.beam, kind.vector)
 				t.Logf("%s: BF top %+.3f bottom %+.3f, DF top %+.3f bottom %+.3f, top end at x = %.0f nm", name, bfT, bfB, dfT, dfB, xT)
 				sBT, sBB, sDT, sDB := fringeSign(bfT), fringeSign(bfB), fringeSign(dfT), fringeSign(dfB)
 				if sBT == 0 || sBB == 0 || sDT == 0 || sDB == 0 {

@@ -17,6 +17,9 @@ type loopCase struct {
 	// kinematical selects the kinematical model and the dark field;
 	// otherwise two-beam bright field.
 	kinematical bool
+	// nature, if not empty, is given in the scene, with b written with
+	// the opposite sign: the program must reverse it.
+	nature string
 }
 
 // burgersText writes b (in lattice units, halves) as the trade does.
@@ -28,6 +31,10 @@ func burgersText(b vec3) string { return fmt.Sprintf("1/2[%g %g %g]", 2*b[0], 2*
 // the contrast of the bright field (two-beam) or dark field (kinematical).
 func loopProfile(t *testing.T, c loopCase, alongY bool) (pos, con []float64, reading string) {
 	t.Helper()
+	b, nature := c.b, ""
+	if c.nature != "" {
+		b, nature = b.scale(-1), `, "nature": "`+c.nature+`"`
+	}
 	model, beam := "", 0
 	if c.kinematical {
 		model, beam = `, "model": "kinematical"`, 1
@@ -40,7 +47,7 @@ func loopProfile(t *testing.T, c loopCase, alongY bool) (pos, con []float64, rea
 	text := `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
 	  "diffraction": {"g": ` + c.g.json() + `, "beam": [0, 0, 1], "w": ` + fmt.Sprint(c.w) + model + `},
 	  "foil": {"thickness_nm": %[1]g},
-	  "defects": [{"type": "loop", "at_nm": [0, 0, %[2]g], "normal": ` + c.normal.json() + `, "b": "` + burgersText(c.b) + `", "radius_nm": ` + fmt.Sprint(c.radiusNm) + `}],
+	  "defects": [{"type": "loop", "at_nm": [0, 0, %[2]g], "normal": ` + c.normal.json() + `, "b": "` + burgersText(b) + `", "radius_nm": ` + fmt.Sprint(c.radiusNm) + nature + `}],
 	  "image": {"width_nm": ` + fmt.Sprint(w) + `, "height_nm": ` + fmt.Sprint(h) + `, "pixels": ` + pixels + `}}`
 	xi := setup(t, fmt.Sprintf(text, 100.0, 50.0)).XiGNm
 	st := setup(t, fmt.Sprintf(text, 4*xi, 2*xi))
@@ -90,7 +97,9 @@ func loopProfile(t *testing.T, c loopCase, alongY bool) (pos, con []float64, rea
 // kinematical dark field at w = ±2, for a vacancy and an
 // interstitial loop of radius 15 nm on (1 0 1) (45° to the beam), on
 // (−1 0 1) (the mirror inclination), and the (1 0 1) loop described with
-// the opposite normal (the same loop), with g and s each reversed. The
+// the opposite normal (the same loop), with g and s each reversed; in
+// bright field also given by its nature with b written the other way
+// round (the program must choose the sign of b from the nature). The
 // image is read where the loop's line is perpendicular to g, at the two
 // ends of the projected loop along g (common practice: the size change on
 // reversing g is measured along g): the strongest contrast within 7 nm of
@@ -116,16 +125,23 @@ func TestLoopInsideOutside(t *testing.T) {
 		}
 		for _, gs := range []float64{1, -1} {
 			for _, m := range []struct {
-				kin bool
-				w   float64
-			}{{false, 1.5}, {true, 2}, {true, -2}} {
+				kin    bool
+				w      float64
+				nature bool
+			}{{false, 1.5, false}, {false, 1.5, true}, {true, 2, false}, {true, -2, false}} {
 				ss := math.Copysign(1, m.w)
 				c := loopCase{normal: def.normal, b: b, g: vec3{2, 0, 0}.scale(gs), w: m.w, radiusNm: r, kinematical: m.kin}
+				if m.nature {
+					c.nature = def.nature
+				}
 				fr := newImageFrame(c.g, vec3{0, 0, 1})
 				nz := def.normal.unit().dot(fr.z)
 				gb := c.g.dot(b)
 				wantOutside := gb*ss*nz > 0
 				name := fmt.Sprintf("%s g=%v b=%s w=%+g %s", def.name, c.g, burgersText(b), c.w, map[bool]string{false: "two-beam BF", true: "kinematical DF"}[m.kin])
+				if m.nature {
+					name += fmt.Sprintf(" (given as nature %s with b = %s)", def.nature, burgersText(b.scale(-1)))
+				}
 				// Ends of the projected loop along x: the loop plane
 				// (±1 0 1) meets y = 0 along [1 0 ∓1], which projects to
 				// r/√2 on x.

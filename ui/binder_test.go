@@ -50,7 +50,7 @@ func TestFaultFormBounds(t *testing.T) {
 	dp.Add.OnTapped()
 	k := len(ws.ctrl.Scene().Defects) - 1
 	labels := formLabels(dp.Form)
-	for _, want := range []string{"Fault plane (hkl)", "Shift R", "Position", "Bounded along [uvw]", "Strip from, to"} {
+	for _, want := range []string{"Fault plane (hkl)", "Fault vector from", "Kind", "Position", "Bounded along [uvw]", "Strip from, to"} {
 		if !labels[want] {
 			t.Errorf("fault form lacks %q (has %v)", want, labels)
 		}

@@ -276,7 +276,11 @@ func (dp *defectsPanel) buildForm() {
 				for _, name := range g.Fields {
 					done[name] = true
 				}
-				rows = append(rows, dp.oneOfRow(b, path, spec, g))
+				if allNumbers(spec, g) {
+					rows = append(rows, dp.oneOfRow(b, path, spec, g))
+				} else {
+					rows = append(rows, dp.oneOfFieldRows(b, path, spec, g)...)
+				}
 				continue
 			}
 			rows = append(rows, dp.fieldRow(b, path, f))
@@ -444,6 +448,56 @@ func (dp *defectsPanel) oneOfRow(b *binder, path string, spec *scene.DefectSpec,
 		})
 	}
 	return formRow(g.Label, container.NewBorder(nil, nil, choice, unitLbl, e), errs...)
+}
+
+// allNumbers tells whether every field of group g is a number (edited by
+// oneOfRow).
+func allNumbers(spec *scene.DefectSpec, g *scene.GroupSpec) bool {
+	for _, name := range g.Fields {
+		if spec.Field(name).Kind != scene.Number {
+			return false
+		}
+	}
+	return true
+}
+
+// oneOfFieldRows edits a group of mutually exclusive fields of any kind
+// (a fault's kind or shift): a choice between them, then the row of the
+// chosen field. Switching sets the chosen field to its default, clears
+// the others and rebuilds the form.
+func (dp *defectsPanel) oneOfFieldRows(b *binder, path string, spec *scene.DefectSpec, g *scene.GroupSpec) []row {
+	ws := dp.ws
+	d := ws.ctrl.Scene().Defects[dp.formFor]
+	k := 0
+	for j, name := range g.Fields {
+		if _, set := defectValue(&d, name); set {
+			k = j
+		}
+	}
+	choice := widget.NewSelect(g.Names, nil)
+	choice.SetSelected(g.Names[k])
+	choice.OnChanged = func(s string) {
+		j := indexOf(g.Names, s)
+		if j < 0 || j == k {
+			return
+		}
+		var edits []scene.Edit
+		for m, name := range g.Fields {
+			var val any
+			if m == j {
+				val = spec.Field(name).Default
+			}
+			edits = append(edits, scene.Edit{Path: path + "." + name, Value: val})
+		}
+		b.setAll(path+"."+g.Fields[j], edits...)
+		ws.board.refresh()
+		dp.List.Refresh()
+		dp.buildForm()
+	}
+	return []row{
+		formRow(g.Label, choice, ws.board.label(path)),
+		dp.fieldRow(b, path, spec.Field(g.Fields[k])),
+	}
 }
 
 // defectValue is the value of d's field name as the scene holds it
