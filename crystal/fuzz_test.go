@@ -54,3 +54,38 @@ func FuzzParseCIF(f *testing.F) {
 		}
 	})
 }
+
+// FuzzParseIndices: index and Burgers texts never panic, and what is
+// accepted lies within the stated limits (finite, each index zero or
+// within [MinIndex, MaxIndex], the factor too, not all zero).
+func FuzzParseIndices(f *testing.F) {
+	for _, s := range []string{"1/2[1 1 0]", "[1-10]", "(1 1 1)", "1/3[1 1 -2 0]", "0x1p3[1 1 0]", "1_0/2[1 1 0]", "[1e-9 0 0]", "1e-320[1 1 0]", "a/2[1,1,0]", "<1 1 0>", "{111}", "[0.5 0.5 0]"} {
+		f.Add(s)
+	}
+	cu, _ := Preset("Cu")
+	ti, _ := Preset("Ti")
+	f.Fuzz(func(t *testing.T, s string) {
+		ix, err := ParseIndices(s)
+		if err == nil {
+			if a := math.Abs(ix.Factor); !(a >= MinIndex && a <= MaxIndex) {
+				t.Fatalf("%q: factor %g accepted", s, ix.Factor)
+			}
+			if err := CheckIndices(ix.V, false); err != nil {
+				t.Fatalf("%q: indices %v accepted: %v", s, ix.V, err)
+			}
+		}
+		for _, c := range []Cell{cu.Cell, ti.Cell} {
+			b, err := c.Burgers(s)
+			if err != nil {
+				continue
+			}
+			for _, x := range b {
+				if math.IsNaN(x) || math.IsInf(x, 0) || x != 0 && math.Abs(x) < MinIndex {
+					t.Fatalf("%q: Burgers vector %v accepted", s, b)
+				}
+			}
+		}
+		SpaceGroupByName(s, cu.Cell)
+		SpaceGroupByHall(s)
+	})
+}
