@@ -25,13 +25,22 @@ type Cell struct{ A, B, C, Alpha, Beta, Gamma float64 }
 // (degrees), or an error when a length is not positive and finite or the
 // three angles cannot close a parallelepiped (each in (0, 180), each smaller
 // than the sum of the other two, and their sum below 360).
+// Limits on a cell edge, nm: 0.1 nm is below any interatomic distance
+// (the shortest cell edges of real crystals are about 0.25 nm), and 20 nm
+// holds more atoms than MaxAtoms at the density of a metal, beyond any
+// structure a diffraction-contrast image is simulated for.
+const (
+	MinCellNm = 0.1
+	MaxCellNm = 20.0
+)
+
 func NewCell(a, b, c, alphaDeg, betaDeg, gammaDeg float64) (Cell, error) {
 	for _, l := range []struct {
 		name string
 		v    float64
 	}{{"a", a}, {"b", b}, {"c", c}} {
-		if !(l.v > 0) || math.IsInf(l.v, 0) {
-			return Cell{}, fmt.Errorf("cell: length %s = %g nm must be positive and finite", l.name, l.v)
+		if !(l.v >= MinCellNm && l.v <= MaxCellNm) {
+			return Cell{}, fmt.Errorf("cell: length %s = %g nm must lie from %g to %g nm", l.name, l.v, MinCellNm, MaxCellNm)
 		}
 	}
 	for _, an := range []struct {

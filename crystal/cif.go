@@ -116,7 +116,7 @@ func crystalFromBlock(b *cifBlock) (*Crystal, error) {
 		// Point at the first bad length, else at the angles.
 		line := b.tagAt[cellTags[3]]
 		for i := 2; i >= 0; i-- {
-			if !(p[i] > 0) || math.IsInf(p[i], 0) {
+			if l := p[i] / angstromPerNm; !(l >= MinCellNm && l <= MaxCellNm) {
 				line = b.tagAt[cellTags[i]]
 			}
 		}

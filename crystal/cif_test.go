@@ -153,6 +153,8 @@ func TestParseCIFBadInput(t *testing.T) {
 		{"occupancy 1.5", replace("0 0 0 1 0.55", "0 0 0 1.5 0.55"), 23, "occupancy"},
 		{"impossible angles", strings.Replace(replace("_cell_angle_alpha 90", "_cell_angle_alpha 30"), "_cell_angle_beta 90", "_cell_angle_beta 30", 1), 5, "impossible"},
 		{"negative length", replace("_cell_length_b 3.6149(2)", "_cell_length_b -3.6"), 3, "length b"},
+		{"huge length", replace("_cell_length_b 3.6149(2)", "_cell_length_b 1e300"), 3, "length b = 1e+299 nm must lie from 0.1 to 20 nm"},
+		{"tiny length", replace("_cell_length_c 3.6149(2)", "_cell_length_c 5e-324"), 4, "length c"},
 		{"text for number", replace("_cell_length_c 3.6149(2)", "_cell_length_c big"), 4, "not a number"},
 		{"unknown length", replace("_cell_length_c 3.6149(2)", "_cell_length_c ?"), 4, "unknown"},
 		{"bad operator", replace("x+1/2,y,z+1/2", "x+1/2,y"), 13, "symmetry operator"},

@@ -92,14 +92,20 @@ func voigtAverage(c [6][6]float64) (shear, poisson float64) {
 	return g, (3*k - 2*g) / (2 * (3*k + g))
 }
 
+// MaxStiffnessGPa bounds every elastic constant: diamond, the stiffest
+// crystal, has C11 ≈ 1080 GPa (from memory); 2000 GPa leaves room while
+// keeping every sum of the elastic solutions far from overflow.
+const MaxStiffnessGPa = 2000
+
 // Validate checks that the constants describe a stable elastic medium: for
-// Full, C finite, symmetric (to 1e-9 relative) and positive definite (the
-// strain energy ½ εᵀCε > 0 for every strain, Born stability); otherwise
-// μ > 0 and −1 < ν < ½.
+// Full, C within ±MaxStiffnessGPa, symmetric (to 1e-9 relative) and
+// positive definite (the strain energy ½ εᵀCε > 0 for every strain, Born
+// stability); otherwise 0 < μ ≤ MaxStiffnessGPa and −1 < ν < ½.
+
 func (e Elastic) Validate() error {
 	if !e.Full {
-		if !(e.ShearGPa > 0) || math.IsInf(e.ShearGPa, 0) {
-			return fmt.Errorf("shear modulus %g GPa must be positive and finite", e.ShearGPa)
+		if !(e.ShearGPa > 0 && e.ShearGPa <= MaxStiffnessGPa) {
+			return fmt.Errorf("shear modulus %g GPa must be positive and at most %g GPa", e.ShearGPa, float64(MaxStiffnessGPa))
 		}
 		if !(e.Poisson > -1 && e.Poisson < 0.5) {
 			return fmt.Errorf("Poisson ratio %g must lie in (−1, 0.5)", e.Poisson)
@@ -109,8 +115,8 @@ func (e Elastic) Validate() error {
 	scale := 0.0
 	for i := range e.C {
 		for j := range e.C[i] {
-			if math.IsNaN(e.C[i][j]) || math.IsInf(e.C[i][j], 0) {
-				return fmt.Errorf("C%d%d = %g is not finite", i+1, j+1, e.C[i][j])
+			if !(math.Abs(e.C[i][j]) <= MaxStiffnessGPa) {
+				return fmt.Errorf("C%d%d = %g GPa: must be finite and within ±%g GPa", i+1, j+1, e.C[i][j], float64(MaxStiffnessGPa))
 			}
 			scale = math.Max(scale, math.Abs(e.C[i][j]))
 		}
