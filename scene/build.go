@@ -347,6 +347,20 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 		st.SPerNm = s
 	}
 	st.W = st.SPerNm * st.XiGNm
+	switch {
+	case d.W != nil:
+		if err := checkDerivedS("diffraction.w", st.SPerNm, fmt.Sprintf("w = %g with ξ_g = %.4g nm", *d.W, st.XiGNm)); err != nil {
+			return nil, err
+		}
+	case d.WeakBeam != nil:
+		if err := checkDerivedS("diffraction.weak_beam.n", st.SPerNm, fmt.Sprintf("g(%gg) with |g| = %.4g /nm at %g kV", d.WeakBeam.N, st.GPerNm, st.VoltageKV)); err != nil {
+			return nil, err
+		}
+	case d.Kikuchi != nil:
+		if err := checkDerivedS("diffraction.deviation_from_kikuchi.offset", st.SPerNm, fmt.Sprintf("offset %g over spacing %g", d.Kikuchi.Offset, d.Kikuchi.Spacing)); err != nil {
+			return nil, err
+		}
+	}
 
 	ratio := DefaultAbsorptionRatio
 	if d.AbsorptionRatio != nil {
@@ -374,6 +388,9 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 	if ratio > 0 && st.Model != "kinematical" {
 		st.XiGAbsNm = st.XiGNm / ratio
 		st.Xi0AbsNm = st.XiGAbsNm
+	}
+	if err := checkOpacity(sc.Foil.ThicknessNm, st.Xi0AbsNm); err != nil {
+		return nil, err
 	}
 	var model sim.Model
 	switch st.Model {

@@ -440,8 +440,10 @@ func (f *FieldSpec) check(path string, v reflect.Value) error {
 				return err
 			}
 		}
-	case Direction, Plane:
+	case Direction:
 		return indices(path, v.Interface().([]float64))
+	case Plane:
+		return planeIndices(path, v.Interface().([]float64))
 	case BurgersList:
 		list := v.Interface().([]string)
 		if len(list) != f.Count {

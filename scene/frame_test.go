@@ -97,8 +97,8 @@ func TestSpecimenFrame(t *testing.T) {
 func TestSpecimenFrameErrors(t *testing.T) {
 	for _, c := range []struct{ xaxis, want string }{
 		{`[0, 0, 1]`, "image.x_axis: [0 0 1] is not perpendicular to the beam"},
-		{`[0, 0, 0]`, "image.x_axis: is the zero vector"},
-		{`[1, 0]`, "image.x_axis: [1 0]: needs 3 indices"},
+		{`[0, 0, 0]`, "image.x_axis: [0, 0, 0]: all indices are zero"},
+		{`[1, 0]`, "image.x_axis: [1, 0]: 2 indices; want 3"},
 	} {
 		text := `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
 		  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.02}, "foil": {"thickness_nm": 60}, "defects": [],

@@ -32,7 +32,15 @@ func Load(path string) (*Scene, error) {
 	if len(data) > MaxFileBytes {
 		return nil, fieldErr("", "scene file %s: larger than %d bytes", path, MaxFileBytes)
 	}
-	return Parse(data)
+	sc, err := Parse(data)
+	var fe *FieldError
+	if errors.As(err, &fe) && fe.Path == "" && strings.HasPrefix(fe.Msg, "scene file:") {
+		// Say which file: "scene file x.json: empty".
+		e := *fe
+		e.Msg = "scene file " + path + strings.TrimPrefix(fe.Msg, "scene file")
+		return nil, &e
+	}
+	return sc, err
 }
 
 func unwrapPathErr(err error) error {

@@ -35,13 +35,13 @@ func (sc *Scene) Validate() error {
 	if err := sc.Crystal.validate("crystal"); err != nil {
 		return err
 	}
-	if v := sc.Microscope.VoltageKV; !(v > 0) || v > 5000 {
-		return fieldErr("microscope.voltage_kv", "%g kV: must be between 0 and 5000", v)
+	if err := checkRange("microscope.voltage_kv", sc.Microscope.VoltageKV, VoltageRange); err != nil {
+		return err
 	}
 	if err := sc.Diffraction.validate("diffraction"); err != nil {
 		return err
 	}
-	if err := positive("foil.thickness_nm", sc.Foil.ThicknessNm); err != nil {
+	if err := checkRange("foil.thickness_nm", sc.Foil.ThicknessNm, ThicknessRange); err != nil {
 		return err
 	}
 	if len(sc.Foil.Normal) > 0 {
@@ -77,16 +77,32 @@ func (c *Crystal) validate(path string) error {
 		if len(c.Symmetry) > 0 && c.Centering != "" {
 			return fieldErr(path, "give symmetry or centering, not both")
 		}
+		k := c.Cell
+		for _, f := range []struct {
+			name string
+			v    float64
+			r    Range
+		}{{"a_nm", k.ANm, CellEdgeRange}, {"b_nm", k.BNm, CellEdgeRange}, {"c_nm", k.CNm, CellEdgeRange},
+			{"alpha_deg", k.AlphaDeg, CellAngleRange}, {"beta_deg", k.BetaDeg, CellAngleRange}, {"gamma_deg", k.GammaDeg, CellAngleRange}} {
+			if err := checkRange(path+".cell."+f.name, f.v, f.r); err != nil {
+				return err
+			}
+		}
 		for i, a := range c.Atoms {
 			p := fmt.Sprintf("%s.atoms[%d]", path, i)
 			if a.Element == "" {
 				return fieldErr(p+".element", "missing")
 			}
-			if a.Occupancy != nil && !(*a.Occupancy > 0 && *a.Occupancy <= 1) {
-				return fieldErr(p+".occupancy", "%g: must be in (0, 1]", *a.Occupancy)
+			for j, x := range a.XYZ {
+				if err := checkRange(fmt.Sprintf("%s.xyz[%d]", p, j), x, FractionalRange); err != nil {
+					return err
+				}
 			}
-			if a.BIsoNm2 != nil && !(*a.BIsoNm2 >= 0) {
-				return fieldErr(p+".b_iso_nm2", "%g: must not be negative", *a.BIsoNm2)
+			if err := checkOptional(p+".occupancy", a.Occupancy, OccupancyRange); err != nil {
+				return err
+			}
+			if err := checkOptional(p+".b_iso_nm2", a.BIsoNm2, BIsoRange); err != nil {
+				return err
 			}
 		}
 	}
@@ -100,14 +116,28 @@ func (c *Crystal) validate(path string) error {
 			if e.ShearGPa == nil || e.Poisson == nil {
 				return fieldErr(path+".elastic", "an isotropic medium needs both shear_gpa and poisson")
 			}
-			if !(*e.ShearGPa > 0) {
-				return fieldErr(path+".elastic.shear_gpa", "%g GPa: must be positive", *e.ShearGPa)
+			if err := checkRange(path+".elastic.shear_gpa", *e.ShearGPa, ShearRange); err != nil {
+				return err
 			}
-			if !(*e.Poisson > -1 && *e.Poisson < 0.5) {
-				return fieldErr(path+".elastic.poisson", "%g: must be between −1 and 0.5", *e.Poisson)
+			if err := checkRange(path+".elastic.poisson", *e.Poisson, PoissonRange); err != nil {
+				return err
 			}
 		case !aniso:
 			return fieldErr(path+".elastic", "empty: give {c11, c12, c44}, {c11, c12, c13, c33, c44}, {cij} or {shear_gpa, poisson}")
+		}
+		for name, v := range map[string]*float64{"c11": e.C11, "c12": e.C12, "c13": e.C13, "c33": e.C33, "c44": e.C44} {
+			if err := checkOptional(path+".elastic."+name, v, StiffnessRange); err != nil {
+				return err
+			}
+		}
+		if e.Cij != nil {
+			for i := range e.Cij {
+				for j, x := range e.Cij[i] {
+					if err := checkRange(fmt.Sprintf("%s.elastic.cij[%d][%d]", path, i, j), x, StiffnessRange); err != nil {
+						return err
+					}
+				}
+			}
 		}
 	}
 	return nil
@@ -117,11 +147,8 @@ func (d *Diffraction) validate(path string) error {
 	if len(d.G) != 3 && len(d.G) != 4 {
 		return fieldErr(path+".g", "%v: needs 3 indices (hkl) or 4 (hkil)", d.G)
 	}
-	if err := indices(path+".g", d.G); err != nil {
+	if err := indexErr(path+".g", d.G, true); err != nil {
 		return err
-	}
-	if allZero(d.G) {
-		return fieldErr(path+".g", "is the zero vector")
 	}
 	if err := indices(path+".beam", d.Beam); err != nil {
 		return err
@@ -145,11 +172,11 @@ func (d *Diffraction) validate(path string) error {
 		}
 		return fieldErr(path, "give only one deviation setting, found %s", strings.Join(set, " and "))
 	}
-	if d.SPerNm != nil && !finite(*d.SPerNm) {
-		return fieldErr(path+".s_per_nm", "must be a finite number")
+	if err := checkOptional(path+".s_per_nm", d.SPerNm, SRange); err != nil {
+		return err
 	}
-	if d.W != nil && !finite(*d.W) {
-		return fieldErr(path+".w", "must be a finite number")
+	if err := checkOptional(path+".w", d.W, WRange); err != nil {
+		return err
 	}
 	if wb := d.WeakBeam; wb != nil {
 		switch n := wb.N; {
@@ -165,11 +192,11 @@ func (d *Diffraction) validate(path string) error {
 		return fieldErr(path+".tilt_off_zone_deg", "%g°: the rotation about g must be less than 90° either way", *t)
 	}
 	if k := d.Kikuchi; k != nil {
-		if !(k.Spacing > 0) {
-			return fieldErr(path+".deviation_from_kikuchi.spacing", "%g: must be positive", k.Spacing)
+		if err := checkRange(path+".deviation_from_kikuchi.spacing", k.Spacing, KikuchiSpaceRange); err != nil {
+			return err
 		}
-		if !finite(k.Offset) {
-			return fieldErr(path+".deviation_from_kikuchi.offset", "must be a finite number")
+		if err := checkRange(path+".deviation_from_kikuchi.offset", k.Offset, KikuchiRange); err != nil {
+			return err
 		}
 	}
 	switch d.Model {
@@ -191,20 +218,20 @@ func (d *Diffraction) validate(path string) error {
 	default:
 		return fieldErr(path+".model", "%q is not a model; use one of %s", d.Model, strings.Join(Models, ", "))
 	}
-	if d.ExtinctionNm != nil && !(*d.ExtinctionNm > 0 && finite(*d.ExtinctionNm)) {
-		return fieldErr(path+".extinction_nm", "%g nm: must be positive", *d.ExtinctionNm)
+	if err := checkOptional(path+".extinction_nm", d.ExtinctionNm, ExtinctionRange); err != nil {
+		return err
 	}
-	if d.AbsorptionRatio != nil && !(*d.AbsorptionRatio >= 0 && *d.AbsorptionRatio < 1) {
-		return fieldErr(path+".absorption_ratio", "%g: must be in [0, 1) (ξ_g/ξ'_g; 0 turns absorption off)", *d.AbsorptionRatio)
+	if err := checkOptional(path+".absorption_ratio", d.AbsorptionRatio, AbsorptionRange); err != nil {
+		return err
 	}
 	return nil
 }
 
 func (im *Image) validate(path string) error {
-	if err := positive(path+".width_nm", im.WidthNm); err != nil {
+	if err := checkRange(path+".width_nm", im.WidthNm, FieldRange); err != nil {
 		return err
 	}
-	if err := positive(path+".height_nm", im.HeightNm); err != nil {
+	if err := checkRange(path+".height_nm", im.HeightNm, FieldRange); err != nil {
 		return err
 	}
 	if len(im.Pixels) != 2 {
@@ -226,10 +253,7 @@ func (im *Image) validate(path string) error {
 			return err
 		}
 	}
-	if im.BlurNm != nil && !(*im.BlurNm >= 0 && finite(*im.BlurNm)) {
-		return fieldErr(path+".blur_nm", "%g nm: must not be negative", *im.BlurNm)
-	}
-	return nil
+	return im.checkBlur(path + ".blur_nm")
 }
 
 // MaxLengthNm bounds every length in a scene (positions, sizes, the
@@ -250,18 +274,12 @@ func positive(path string, v float64) error {
 	return nil
 }
 
-func indices(path string, v []float64) error {
-	if len(v) != 3 && len(v) != 4 {
-		return fieldErr(path, "%v: needs 3 indices, or 4 for a hexagonal cell", v)
-	}
-	if !allFinite(v) {
-		return fieldErr(path, "%v: indices must be finite numbers", v)
-	}
-	if allZero(v) {
-		return fieldErr(path, "is the zero vector")
-	}
-	return nil
-}
+// indices checks direction indices (beam, foil normal, a defect's line,
+// loop normal or fault edge): see crystal.CheckIndices.
+func indices(path string, v []float64) error { return indexErr(path, v, false) }
+
+// planeIndices checks plane indices (hkl), whole numbers.
+func planeIndices(path string, v []float64) error { return indexErr(path, v, true) }
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 

@@ -220,7 +220,7 @@ func TestBadInput(t *testing.T) {
 		{"pixels zero", mod(`"pixels": [64, 64]`, `"pixels": [0, 64]`), "image.pixels"},
 		{"pixels too many", mod(`"pixels": [64, 64]`, `"pixels": [100000, 100000]`), "image.pixels: [100000 100000]: more than"},
 		{"burgers text", mod(`"1/2[1 1 0]"`, `"1/2[1 1"`), "defects[0].b"},
-		{"zero line", mod(`"line": [1, -1, 0]`, `"line": [0, 0, 0]`), "defects[0].line: is the zero vector"},
+		{"zero line", mod(`"line": [1, -1, 0]`, `"line": [0, 0, 0]`), "defects[0].line: [0, 0, 0]: all indices are zero"},
 		{"unknown defect", mod(`"type": "dislocation"`, `"type": "twin"`), `defects[0].type: "twin" is not a defect type`},
 		{"unknown material", mod(`"Cu"`, `"Unobtainium"`), "crystal.material"},
 		{"truncated", goodScene[:len(goodScene)/2], "truncated"},
