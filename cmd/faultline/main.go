@@ -68,6 +68,9 @@ const usage = `usage:
   faultline profile SCENE --from X,Y --to X,Y
                                           CSV distance_nm,x_nm,y_nm,bf,df along a line
   faultline reflections SCENE [--json]    g and the reflections of the zone
+  faultline plan SCENE -o DIR [--thickness-nm A:B:STEP] [--s-per-nm A:B:STEP] [--candidates 1/2<110>]
+                                          thickness, rocking, visibility and weak-beam
+                                          curves, g·b table, suggested conditions
   faultline identify SET [--json] [-o DIR]
                                           rank candidate Burgers vectors (or a loop's
                                           nature, a fault's kind) against a g·b series
@@ -122,14 +125,14 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 	case "fit":
 		err = cmdFit(ctx, args[1:], stdout, stderr)
 	case "plan":
-		err = usageError{fmt.Sprintf("%s is not built yet; this version has render, profile, reflections, identify, fit and sweep", args[0])}
+		err = cmdPlan(ctx, args[1:], stdout, stderr)
 	case "sweep":
 		err = cmdSweep(ctx, args[1:], stdout, stderr)
 	case "-h", "--help", "-help", "help":
 		fmt.Fprint(stdout, usage)
 		return exitOK
 	default:
-		err = usageError{fmt.Sprintf("unknown command %s; the commands are render, profile, reflections, identify, fit, sweep", cutQuoted(fmt.Sprintf("%q", args[0])))}
+		err = usageError{fmt.Sprintf("unknown command %s; the commands are render, profile, reflections, plan, identify, fit, sweep", cutQuoted(fmt.Sprintf("%q", args[0])))}
 	}
 	if err == nil || errors.Is(err, errHelp) {
 		return exitOK

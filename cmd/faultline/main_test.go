@@ -34,7 +34,7 @@ func TestRunExitStatus(t *testing.T) {
 		{nil, exitBadInput, "usage:"},
 		{[]string{"help"}, exitOK, ""},
 		{[]string{"frobnicate"}, exitBadInput, `error: unknown command "frobnicate"`},
-		{[]string{"plan", bad}, exitBadInput, "error: plan is not built yet"},
+		{[]string{"plan", bad, "-o", dir}, exitBadInput, "error: colour: unknown field"},
 		{[]string{"render", bad, "-o", dir}, exitBadInput, "error: colour: unknown field"},
 		{[]string{"render", bad}, exitBadInput, "error: render: give the output directory with -o DIR"},
 		{[]string{"reflections", bad, bad}, exitBadInput, "error: reflections: give one scene file (got 2 arguments;"},
@@ -470,5 +470,43 @@ func TestRenderAllBeams(t *testing.T) {
 	}
 	if !strings.Contains(stderr.String(), "warning: diffraction.weak_beam") {
 		t.Errorf("no weak-beam warning on stderr: %q", stderr.String())
+	}
+}
+
+// plan writes the four curves with their headers and plots, and prints
+// suggestions with reasons.
+func TestPlanWritesCurves(t *testing.T) {
+	dir := t.TempDir()
+	sc := filepath.Join(dir, "p.json")
+	os.WriteFile(sc, []byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01},
+	  "foil": {"thickness_nm": 50},
+	  "defects": [{"type": "dislocation", "b": "1/2[1 1 0]", "line": [1, -1, 0], "at_nm": [0, 0, 25], "elasticity": "isotropic"}],
+	  "image": {"width_nm": 40, "height_nm": 40, "pixels": [8, 8]}}`), 0o644)
+	out := filepath.Join(dir, "plan")
+	stdout, stderr, code := runCLI("plan", sc, "-o", out, "--thickness-nm", "10:50:10", "--s-per-nm", "-0.02:0.02:0.02", "--candidates", "1/2<110>")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for name, header := range map[string]string{"thickness.csv": "thickness_nm,bf,df\n", "rocking.csv": "s_per_nm,bf,df\n",
+		"visibility.csv": "thickness_nm,s_per_nm,visibility\n", "weakbeam.csv": "n,s_per_nm,w,", "gb.csv": "b,g,g_dot_b,g_dot_b_cross_u\n"} {
+		b, err := os.ReadFile(filepath.Join(out, name))
+		if err != nil || !strings.HasPrefix(string(b), header) {
+			t.Errorf("%s: %v, starts %.40q", name, err, b)
+		}
+	}
+	for _, name := range []string{"thickness.png", "rocking.png", "visibility.png", "weakbeam.png"} {
+		if _, err := os.Stat(filepath.Join(out, name)); err != nil {
+			t.Error(err)
+		}
+	}
+	if !strings.Contains(stdout, "because") || !strings.Contains(stdout, "g·b table") || !strings.Contains(stdout, "replayed") {
+		t.Errorf("stdout: %s", stdout)
+	}
+	for _, args := range [][]string{{"plan", sc}, {"plan", sc, "-o", out, "--s-per-nm", "1:0:1"}, {"plan", sc, "-o", out, "--candidates", "1/2<1 1"}} {
+		_, errOut, code := runCLI(args...)
+		if code != exitBadInput {
+			t.Errorf("%v: exit %d %s", args, code, errOut)
+		}
 	}
 }

@@ -1,0 +1,43 @@
+// Package plan helps choose the imaging conditions before going to the
+// microscope: for a scene it computes the thickness fringes and the
+// rocking curve of the perfect crystal, the visibility of the scene's
+// defects over a grid of thickness and excitation error, the weak-beam
+// image peak of a dislocation against s (position from the core and
+// width), the apparent separation of a dissociated dislocation's partials
+// in weak beam against the true one, and the g·b, g·(b×u) table of
+// candidate Burgers-vector families against the zone's low-order
+// reflections; it suggests conditions, with the reason for each.
+//
+// # Definitions
+//
+// Visibility of a defect at (t, s) is the Michelson contrast of the dark
+// field along a profile across the defect (perpendicular to a dislocation's
+// projected line, through its middle; along x through the centre of any
+// other defect):
+//
+//	V = (I_max − I_min) / (I_max + I_min)
+//
+// which is 0 for a featureless image and approaches 1 where the defect
+// makes the intensity vanish somewhere or rise far above the background.
+//
+// The weak-beam peak is the maximum of that profile's dark field; its
+// position is measured from the dislocation's core along the profile and
+// its width is the full width at half its height above the perfect
+// crystal's dark field. The image of each partial of a dissociated
+// dislocation lies off its core by about g·b_p/(2π s) towards the side
+// where s + g·dR/dz = 0 (Cockayne, Ray & Whelan 1969, Phil. Mag. 20,
+// 1265), so the separation of the two peaks differs from the partials'
+// projected separation; the ratio the planner reports is the correction
+// to apply to a measured width (the correction described by Cockayne,
+// Ray & Whelan 1969 and applied to dissociation widths in Cockayne 1972,
+// Z. Naturforsch. 27a, 452).
+//
+// # Reuse of the field samples
+//
+// The visibility grid and the weak-beam scan integrate the same columns at
+// many (t, s): the columns' samples of the displacement field are recorded
+// once (sim.Record, up to the largest thickness, with the step control
+// covering the extreme excitation errors) and replayed for every point
+// (sim.Samples.Replay), so the field is evaluated once per column rather
+// than once per column per point. Plan.Reuse reports the measured times.
+package plan
