@@ -54,13 +54,19 @@ func extinction(t *testing.T, text string) float64 {
 	return setup(t, fmt.Sprintf(text, 100.0)).XiGNm
 }
 
-// contrast returns the image of beam k minus the perfect-crystal
-// intensity of that beam.
-func contrast(st *scene.Setup, im *sim.Image, k int) []float64 {
+// contrast returns the image of beam n·g (0: bright field, 1: dark field)
+// minus the perfect-crystal intensity of that beam.
+func contrast(st *scene.Setup, im *sim.Image, n int) []float64 {
 	ref := perfect(st)
+	k := -1
+	for i, b := range im.Beams {
+		if b == n {
+			k = i
+		}
+	}
 	out := make([]float64, len(im.Intensity[k]))
-	for n, v := range im.Intensity[k] {
-		out[n] = v - ref[k]
+	for i, v := range im.Intensity[k] {
+		out[i] = v - ref[k]
 	}
 	return out
 }
