@@ -64,11 +64,14 @@ type Setup struct {
 	Notes []string
 	// Warnings records conditions a user should reconsider, for display:
 	// a weak-beam condition weaker than common practice, strongly excited
-	// reflections the model leaves out.
+	// reflections the model leaves out, defects that cannot show, an
+	// opaque foil, residual contrast at g·b = 0 (see warnSpecimen).
 	Warnings []string
 
 	stroh   *defects.StrohCache // the material's, for the defects
 	spheres []sphere            // cavities found while building defects
+	fields  defects.Sum         // one field per defect, in the frame of g
+	normalG r3.Vec              // the foil normal in the frame of g (zero: the beam)
 }
 
 // Build turns a validated scene into a Setup in one pass. dir is the
@@ -447,6 +450,7 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 		Grid: sim.Grid{NX: sc.Image.Pixels[0], NY: sc.Image.Pixels[1],
 			WidthNm: sc.Image.WidthNm, HeightNm: sc.Image.HeightNm},
 	}
+	st.fields, st.normalG = geo.field, normal
 	if len(geo.field) > 0 {
 		st.Problem.Field = geo.field
 	}
@@ -457,6 +461,7 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 		st.Problem = sim.Turn(st.Problem, geo.gAngle, st.Problem.Grid)
 	}
 	st.warnConditions()
+	st.warnSpecimen()
 	if err := st.Problem.Validate(); err != nil {
 		// Everything the problem holds was checked above except what the
 		// crystal produced: the extinction distance and the model built

@@ -350,7 +350,7 @@ func conditionsPanel(ws *Workspace) fyne.CanvasObject {
 		}
 		p.CrystalInfo.SetText(crystalInfo(st))
 		p.Derived.SetText(st.Describe())
-		p.Notes.SetText(strings.Join(st.Notes, "\n"))
+		p.Notes.SetText(strings.Join(append(append([]string(nil), st.Notes...), st.Warnings...), "\n"))
 		p.updateReflections(st, b)
 	})
 

@@ -65,8 +65,16 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 			s.Readings.SetText("")
 			s.Readings.Hide()
 		}
-		s.Message.Importance = widget.MediumImportance
-		s.Message.SetText("")
+		// Warnings about the conditions (other beams excited, an opaque
+		// foil, defects that cannot show, residual contrast): notes, not
+		// refusals.
+		if ws := st.Warnings; len(ws) > 0 {
+			s.Message.Importance = widget.WarningImportance
+			s.Message.SetText("Note: " + strings.Join(ws, " · "))
+		} else {
+			s.Message.Importance = widget.MediumImportance
+			s.Message.SetText("")
+		}
 		s.Progress.SetValue(0)
 		if s.Timing.Text == staleText || s.Timing.Text == startText {
 			s.Timing.SetText("Rendering…")
