@@ -227,7 +227,14 @@ func Figure(st *scene.Setup, im *sim.Image, o Options) (*image.RGBA, error) {
 		return nil, err
 	}
 	c := captionLines(st, o)
-	c.Lines = append(c.Lines, MappingNote(o.FigureMapping))
+	beams, labels := []int{0, 1}, []string{"BF", "DF"}
+	switch single {
+	case "BF":
+		beams, labels = beams[:1], labels[:1]
+	case "DF":
+		beams, labels = beams[1:], labels[1:]
+	}
+	c.Lines = append(c.Lines, GreyNote(im, o.FigureMapping, beams, labels))
 	if plan.down > 1 {
 		c.Lines = append(c.Lines, fmt.Sprintf("panels reduced %d× (box average); bf.tiff and df.tiff hold every pixel", plan.down))
 		bf, df = reduce(bf, plan.down), reduce(df, plan.down)

@@ -29,7 +29,7 @@ func planFigure(st *scene.Setup, g sim.Grid, o Options) (figurePlan, error) {
 		return figurePlan{}, &scene.FieldError{Path: "image.pixels", Msg: err.Error()}
 	}
 	c := captionLines(st, o)
-	c.Lines = append(c.Lines, MappingNote(o.FigureMapping), "panels reduced 8× (box average)")
+	c.Lines = append(c.Lines, longestGreyNote(o.FigureMapping), "panels reduced 8× (box average); bf.tiff and df.tiff hold every pixel")
 	var last error
 	for down := 1; down <= maxFigureDown; down++ {
 		w, h := (g.NX+down-1)/down, (g.NY+down-1)/down

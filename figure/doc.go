@@ -18,8 +18,11 @@
 // The percentiles are those of the sorted finite values with linear
 // interpolation between neighbouring ranks (the "linear" definition, type 7
 // of Hyndman & Fan, "Sample quantiles in statistical packages", The American
-// Statistician 50, 361 (1996)). An auto-mapped image with hi = lo has no
-// contrast to stretch and becomes uniform mid grey (128). NaN maps to 0
+// Statistician 50, 361 (1996)). An auto-mapped image never shows contrast
+// that is not in its numbers: when its whole range (minimum to maximum)
+// is below ContrastFloor, 1e-3 of the incident beam, it is drawn flat at
+// the fixed grey of its middle value, and a clipped range narrower than
+// the floor is widened to it about its middle. NaN maps to 0
 // (black) and ±Inf clamp to the ends.
 //
 // # Files

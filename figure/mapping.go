@@ -32,8 +32,11 @@ const ContrastFloor = 1e-3
 //     With ClipPercent = 0, lo and hi are the smallest and largest finite
 //     values; with ClipPercent = p > 0 they are the p-th and (100−p)-th
 //     percentiles (linear interpolation between ranks), so a few extreme
-//     pixels (a dislocation core) do not flatten the rest. An image with
-//     hi = lo becomes uniform mid grey (128).
+//     pixels (a dislocation core) do not flatten the rest. A stretch never
+//     invents contrast: an image whose whole range (minimum to maximum)
+//     is below ContrastFloor is drawn flat, at the grey the fixed mapping
+//     gives its middle value, and a clipped range narrower than
+//     ContrastFloor is widened to it about its middle (see Stretch).
 //
 // The grey level is floor(255·clamp(q, 0, 1) + 0.5) for the fraction q
 // above; Invert then replaces it by 255 minus itself. NaN gives 0 (before
@@ -69,17 +72,65 @@ func (m Mapping) Validate() error {
 	return nil
 }
 
+// Stretch is what a mapping does to one image: the intensities Lo and Hi
+// sent to black and white (before Invert), and whether the image was
+// found to hold no contrast and drawn flat.
+type Stretch struct {
+	Lo, Hi float64
+	// Auto: the range is the image's own (auto mode), not fixed.
+	Auto bool
+	// Flat: auto mode found the image's whole range below ContrastFloor;
+	// every pixel is drawn at the fixed grey of Level.
+	Flat bool
+	// Level is the intensity a flat image is drawn at: the middle of its
+	// range.
+	Level float64
+	// Span is the image's whole range, maximum − minimum of the finite
+	// values (auto mode only).
+	Span float64
+}
+
+// Stretch returns how m maps data. In fixed mode the range is 0..Max. In
+// auto mode it is the clipped range of data, with two guards so that a
+// picture never shows contrast that is not in the numbers: when the whole
+// range (minimum to maximum) is below ContrastFloor the image is flat;
+// otherwise a clipped range narrower than ContrastFloor is widened to it
+// about its middle, so no stretch magnifies more than 1/ContrastFloor.
+func (m Mapping) Stretch(data []float64) Stretch {
+	if m.Mode != ModeAuto {
+		if m.Max == 0 {
+			return Stretch{Lo: 0, Hi: 1}
+		}
+		return Stretch{Lo: 0, Hi: m.Max}
+	}
+	minV, maxV := autoRange(data, 0)
+	s := Stretch{Auto: true, Span: maxV - minV}
+	if !(s.Span >= ContrastFloor) {
+		s.Flat = true
+		s.Level = minV + (maxV-minV)/2
+		s.Lo, s.Hi = minV, maxV
+		return s
+	}
+	s.Lo, s.Hi = minV, maxV
+	if m.ClipPercent > 0 {
+		s.Lo, s.Hi = autoRange(data, m.ClipPercent)
+	}
+	if s.Hi-s.Lo < ContrastFloor {
+		mid := s.Lo + (s.Hi-s.Lo)/2
+		s.Lo, s.Hi = mid-ContrastFloor/2, mid+ContrastFloor/2
+	}
+	return s
+}
+
 // Range returns the intensities lo and hi that the mapping sends to black
-// and white (before Invert) for this data. For a constant image in auto mode
-// lo equals hi.
+// and white (before Invert) for this data (see Stretch). For an image
+// drawn flat lo equals hi, the intensity it is drawn at.
 func (m Mapping) Range(data []float64) (lo, hi float64) {
-	if m.Mode == ModeAuto {
-		return autoRange(data, m.ClipPercent)
+	s := m.Stretch(data)
+	if s.Flat {
+		return s.Level, s.Level
 	}
-	if m.Max == 0 {
-		return 0, 1
-	}
-	return 0, m.Max
+	return s.Lo, s.Hi
 }
 
 // Gray maps an nx × ny intensity image, stored row by row (data[j*nx+i] is
@@ -93,12 +144,20 @@ func Gray(data []float64, nx, ny int, m Mapping) *image.Gray {
 	if err := m.Validate(); err != nil {
 		panic(err)
 	}
-	lo, hi := m.Range(data)
+	st := m.Stretch(data)
+	lo, hi := st.Lo, st.Hi
 	img := image.NewGray(image.Rect(0, 0, nx, ny))
+	flat := level(st.Level, 0, 1)
 	for j := 0; j < ny; j++ {
 		row := img.Pix[j*img.Stride : j*img.Stride+nx]
 		for i := range row {
 			g := level(data[j*nx+i], lo, hi)
+			if st.Flat {
+				g = flat
+				if math.IsNaN(data[j*nx+i]) {
+					g = 0
+				}
+			}
 			if m.Invert {
 				g = 255 - g
 			}

@@ -32,10 +32,28 @@ func TestGrayTable(t *testing.T) {
 			[]float64{0.2, 0.3, 0.4, 0.6}, []uint8{0, 64, 128, 255}},
 		{"auto inverted", Mapping{Mode: "auto", Invert: true},
 			[]float64{0.2, 0.3, 0.4, 0.6}, []uint8{255, 191, 127, 0}},
-		{"auto constant image is mid grey", Mapping{Mode: "auto"},
-			[]float64{0.7, 0.7, 0.7}, []uint8{128, 128, 128}},
+		// No contrast: drawn flat at the fixed grey of the middle value,
+		// 0.7·255 = 178.5 -> 179, 0.3·255 = 76.5 -> 77.
+		{"auto constant image is flat", Mapping{Mode: "auto"},
+			[]float64{0.7, 0.7, 0.7}, []uint8{179, 179, 179}},
 		{"auto constant, clipped", Mapping{Mode: "auto", ClipPercent: 5},
-			[]float64{0.3, 0.3}, []uint8{128, 128}},
+			[]float64{0.3, 0.3}, []uint8{77, 77}},
+		// Rounding noise far below ContrastFloor is not stretched.
+		{"auto rounding noise is flat", Mapping{Mode: "auto"},
+			[]float64{0.7, 0.7 + 2e-16, 0.7 - 1e-16}, []uint8{179, 179, 179}},
+		{"auto flat inverted", Mapping{Mode: "auto", Invert: true},
+			[]float64{0.3, 0.3 + 1e-12}, []uint8{178, 178}},
+		// A weak but real contrast of 0.01 (ten times the floor) is
+		// stretched: q = (v − 0.5)/0.01.
+		{"auto weak contrast stretched", Mapping{Mode: "auto"},
+			[]float64{0.5, 0.5025, 0.505, 0.51}, []uint8{0, 64, 128, 255}},
+		// A clipped range below the floor is widened to 1e-3 about its
+		// middle: 11 values, ten at 0.5 + k·1e-5 and one at 0.6; the 10th
+		// and 90th percentiles are 0.50001 and 0.50009, middle 0.50005,
+		// range 0.49955..0.50055: q(0.5) = 0.45, q(0.6) = 1.
+		{"auto clipped range widened to the floor", Mapping{Mode: "auto", ClipPercent: 10},
+			[]float64{0.5, 0.50001, 0.50002, 0.50003, 0.50004, 0.50005, 0.50006, 0.50007, 0.50008, 0.50009, 0.6},
+			[]uint8{115, 117, 120, 122, 125, 128, 130, 133, 135, 138, 255}},
 		{"non-finite values", Mapping{Mode: "auto"},
 			[]float64{math.NaN(), 0, 1, inf, -inf}, []uint8{0, 0, 255, 255, 0}},
 		{"all NaN", Mapping{Mode: "auto"},

@@ -158,6 +158,8 @@ func (v *imageView) redraw() {
 			}
 			v.BF.src = newGridSource(bf, g.WidthNm, g.HeightNm)
 			v.DF.src = newGridSource(df, g.WidthNm, g.HeightNm)
+			v.BF.grey, v.BF.warn = greyMark(v.mapping.Stretch(im.BF()))
+			v.DF.grey, v.DF.warn = greyMark(v.mapping.Stretch(im.DF()))
 		}
 		if v.vp.setField(g.WidthNm, g.HeightNm) {
 			v.refreshAll()
@@ -174,6 +176,19 @@ func (v *imageView) simGAngleDeg() float64 {
 		return st.GAngleDeg
 	}
 	return 0
+}
+
+// greyMark is what a panel says about its grey: the range a stretch maps
+// (as in the figure's caption), or a plain no-contrast mark for a panel
+// whose range is below the floor (drawn flat, as in the figure).
+func greyMark(s figure.Stretch) (text string, warn bool) {
+	switch {
+	case !s.Auto:
+		return "", false
+	case s.Flat:
+		return fmt.Sprintf("no contrast: range below %g, drawn flat", figure.ContrastFloor), true
+	}
+	return "stretched over " + export.StretchRange(s), false
 }
 
 // updateExtra sets the third panel from the micrograph and the chosen

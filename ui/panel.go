@@ -33,6 +33,11 @@ type imagePanel struct {
 	title string
 	src   source
 	tag   string // a note in the corner ("preview 64 × 64")
+	// grey says how the panel's grey relates to intensity, under the
+	// title ("stretched over 0.412–0.587"); warn marks a panel without
+	// contrast.
+	grey string
+	warn bool
 
 	drawing    bool
 	dragStartX float64
@@ -113,6 +118,9 @@ func (p *imagePanel) CreateRenderer() fyne.WidgetRenderer {
 	r.tagText = canvas.NewText("", tagColour)
 	r.tagText.TextSize = 11
 	r.tagPlate = canvas.NewRectangle(plateColour)
+	r.greyText = canvas.NewText("", overlayColour)
+	r.greyText.TextSize = 11
+	r.greyPlate = canvas.NewRectangle(plateColour)
 	r.barPlate = canvas.NewRectangle(plateColour)
 	r.bar = canvas.NewRectangle(overlayColour)
 	r.barText = canvas.NewText("", overlayColour)
@@ -134,7 +142,7 @@ func (p *imagePanel) CreateRenderer() fyne.WidgetRenderer {
 	r.end1.StrokeColor = lineColour
 	r.end1.StrokeWidth = 2
 	r.objects = []fyne.CanvasObject{r.bg, r.raster, r.profile, r.end0, r.end1,
-		r.titlePlate, r.titleText, r.tagPlate, r.tagText,
+		r.titlePlate, r.titleText, r.tagPlate, r.tagText, r.greyPlate, r.greyText,
 		r.barPlate, r.bar, r.barText, r.arrowPlate, r.shaft, r.head1, r.head2, r.gText}
 	return r
 }
@@ -145,6 +153,8 @@ type panelRenderer struct {
 	raster                    *canvas.Raster
 	titlePlate, tagPlate      *canvas.Rectangle
 	titleText, tagText        *canvas.Text
+	greyPlate                 *canvas.Rectangle
+	greyText                  *canvas.Text
 	barPlate, bar, arrowPlate *canvas.Rectangle
 	barText, gText            *canvas.Text
 	shaft, head1, head2       *canvas.Line
@@ -183,6 +193,28 @@ func (r *panelRenderer) place() {
 	r.titlePlate.Move(fyne.NewPos(pad, pad))
 	r.titlePlate.Resize(fyne.NewSize(ts.Width+12, ts.Height+4))
 	r.titleText.Move(fyne.NewPos(pad+6, pad+2))
+	// Grey range (or the no-contrast mark), under the title.
+	r.greyText.Text = r.p.grey
+	if r.p.grey == "" {
+		r.greyText.Hide()
+		r.greyPlate.Hide()
+	} else {
+		r.greyText.Show()
+		r.greyPlate.Show()
+		r.greyText.Color = overlayColour
+		r.greyText.TextStyle = fyne.TextStyle{}
+		r.greyPlate.FillColor = plateColour
+		if r.p.warn {
+			r.greyText.Color = color.NRGBA{0x20, 0x10, 0x00, 0xff}
+			r.greyText.TextStyle = fyne.TextStyle{Bold: true}
+			r.greyPlate.FillColor = tagColour
+		}
+		gs := r.greyText.MinSize()
+		y := pad + ts.Height + 8
+		r.greyPlate.Move(fyne.NewPos(pad, y))
+		r.greyPlate.Resize(fyne.NewSize(gs.Width+12, gs.Height+4))
+		r.greyText.Move(fyne.NewPos(pad+6, y+2))
+	}
 	// Tag, top right.
 	r.tagText.Text = r.p.tag
 	if r.p.tag == "" {

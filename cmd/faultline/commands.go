@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"faultline/export"
+	"faultline/figure"
 	"faultline/internal/atomicfile"
 	"faultline/scene"
 	"faultline/sim"
@@ -24,7 +25,7 @@ var errHelp = errors.New("help shown")
 
 // command usages, printed by COMMAND --help (on stdout, exit 0).
 var commandUsage = map[string]string{
-	"render": `usage: faultline render SCENE -o DIR [--caption short|long] [--tolerance CYCLES] [--all-beams]
+	"render": `usage: faultline render SCENE -o DIR [--caption short|long] [--grey fixed|stretch] [--clip PERCENT] [--tolerance CYCLES] [--all-beams]
 
 Simulates SCENE and writes into DIR (created with its missing parents):
 bf.png, df.png (8-bit, grey = 255·I), figure.png (the labelled pair),
@@ -42,6 +43,13 @@ inside–outside contrast, a precipitate's misfit sign).
            long: also the reading of every defect
   --all-beams  also write beam_N.tiff for every other beam N·g of the
                model (beam_-1.tiff, beam_2.tiff, …)
+  --grey fixed|stretch  grey scale of figure.png: stretch (default) maps
+           each panel's range to black..white and the caption states the
+           range; a panel whose range is below 0.001 of the incident beam
+           has no contrast and is drawn flat, and the caption says so;
+           fixed: grey = 255·I, white = the incident beam
+  --clip PERCENT  with stretch, the percentage of pixels clipped at each
+           end of the range (default 0.5, from 0 up to but not including 50)
   --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
   --tolerance CYCLES  step-control tolerance of the column integrator, in
            cycles of g·R (default 5e-05: every pixel within 1e-4 of the
@@ -89,6 +97,8 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	allBeams := fs.Bool("all-beams", false, "also write beam_N.tiff for every other beam N·g of the model")
 	set := setFlag(fs)
 	tol := fs.Float64("tolerance", sim.DefaultTolerance, "step-control tolerance, cycles")
+	grey := fs.String("grey", "stretch", "grey scale of figure.png: fixed or stretch")
+	clip := fs.Float64("clip", 0.5, "percentage of pixels clipped at each end with --grey stretch")
 	path, err := parse(fs, args, stdout)
 	if err != nil {
 		return err
@@ -98,6 +108,17 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	}
 	if *caption != "short" && *caption != "long" {
 		return usageError{fmt.Sprintf("render: --caption %q: use short or long", *caption)}
+	}
+	given := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
+	if *grey != "fixed" && *grey != "stretch" {
+		return usageError{fmt.Sprintf("render: --grey %q: use fixed or stretch", *grey)}
+	}
+	if !(*clip >= 0 && *clip < 50) {
+		return usageError{fmt.Sprintf("render: --clip %g: must be a percentage from 0 up to but not including 50", *clip)}
+	}
+	if *grey == "fixed" && given["clip"] {
+		return usageError{"render: --clip applies to --grey stretch only"}
 	}
 	if !(*tol > 0 && *tol <= maxTolerance) {
 		return usageError{fmt.Sprintf("render: --tolerance %g: must be positive and at most %g cycles", *tol, maxTolerance)}
@@ -113,6 +134,10 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	o := export.DefaultOptions()
 	o.Readings = *caption == "long"
 	o.AllBeams = *allBeams
+	o.FigureMapping = figure.Mapping{Mode: figure.ModeAuto, ClipPercent: *clip}
+	if *grey == "fixed" {
+		o.FigureMapping = figure.Mapping{Mode: figure.ModeFixed}
+	}
 	// A figure that cannot be drawn is refused before the render.
 	if err := export.CheckFigure(st, o); err != nil {
 		return err
