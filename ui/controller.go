@@ -73,6 +73,7 @@ type Controller struct {
 	sc        *scene.Scene
 	path      string
 	savedJSON []byte
+	hist      history // undo and redo
 
 	builder  scene.Builder // keeps the stages a change leaves alone
 	setup    *scene.Setup
@@ -205,6 +206,7 @@ func (c *Controller) Dir() string {
 // Replace makes sc the scene, from file path ("" for none) and, if saved,
 // as it is on disk. It builds and renders it.
 func (c *Controller) Replace(sc *scene.Scene, path string, saved bool) {
+	c.hist.clear()
 	c.sc = sc
 	c.path = path
 	c.savedJSON = nil
@@ -261,6 +263,7 @@ func (c *Controller) SaveAs(path string) error {
 func (c *Controller) Edit(change func(sc *scene.Scene)) error {
 	next := cloneScene(c.sc)
 	change(next)
+	c.hist.record(c.sc, "")
 	c.sc = next
 	c.fireState()
 	return c.rebuild()
@@ -282,6 +285,7 @@ func (c *Controller) Set(edits ...scene.Edit) error {
 		}
 		return err
 	}
+	c.hist.record(c.sc, editKey(edits))
 	c.sc = next
 	c.fireState()
 	return c.rebuild()

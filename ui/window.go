@@ -72,6 +72,10 @@ func Run(o Options) int {
 		}
 	}
 
+	if err := checkDisplay(os.Getenv); err != nil {
+		fmt.Fprintln(stderr, err.Error())
+		return ExitBadInput
+	}
 	a := app.NewWithID(AppID)
 	w := a.NewWindow("Faultline")
 	ws := NewWorkspace(a, w, fyne.Do)
@@ -162,6 +166,8 @@ func (ws *Workspace) commands() map[string]command {
 		"figure":    {"Export figure (PNG)…", shortcut(fyne.KeyE, false), ws.ExportFigureDialog},
 		"tiff":      {"Export TIFF (32-bit float)…", shortcut(fyne.KeyT, false), ws.ExportTIFFDialog},
 		"profile":   {"Export line profile (CSV)…", shortcut(fyne.KeyE, true), ws.ExportProfileDialog},
+		"undo":      {"Undo", shortcut(fyne.KeyZ, false), ws.Undo},
+		"redo":      {"Redo", shortcut(fyne.KeyZ, true), ws.Redo},
 		"quit":      {"Quit", shortcut(fyne.KeyQ, false), func() { ws.confirmDiscard(ws.app.Quit) }},
 		"fit":       {"Fit images", shortcut(fyne.Key0, false), v.fit},
 		"zoomin":    {"Zoom in", shortcut(fyne.KeyEqual, false), func() { v.zoomBy(1.25) }},
@@ -237,16 +243,17 @@ func (ws *Workspace) mainMenu() *fyne.MainMenu {
 		fyne.NewMenuItemSeparator(),
 		quit,
 	)
+	edit := fyne.NewMenu("Edit", ws.item("undo"), ws.item("redo"))
 	view := fyne.NewMenu("View", ws.item("fit"), ws.item("zoomin"), ws.item("zoomout"),
 		fyne.NewMenuItemSeparator(), ws.item("invert"), ws.item("linetool"))
 	defects := fyne.NewMenu("Defects", ws.item("adddefect"))
 	help := fyne.NewMenu("Help", fyne.NewMenuItem("Keyboard shortcuts", ws.showShortcuts))
-	return fyne.NewMainMenu(file, view, defects, help)
+	return fyne.NewMainMenu(file, edit, view, defects, help)
 }
 
 // showShortcuts lists the keyboard shortcuts.
 func (ws *Workspace) showShortcuts() {
-	order := []string{"new", "open", "save", "saveas", "micro", "figure", "tiff", "profile", "fit", "zoomin", "zoomout", "invert", "linetool", "adddefect", "quit"}
+	order := []string{"new", "open", "save", "saveas", "undo", "redo", "micro", "figure", "tiff", "profile", "fit", "zoomin", "zoomout", "invert", "linetool", "adddefect", "quit"}
 	cmds := ws.commands()
 	var b strings.Builder
 	for _, k := range order {
@@ -265,4 +272,19 @@ func shortcutText(s *desktop.CustomShortcut) string {
 		t += "Shift+"
 	}
 	return t + string(s.KeyName)
+}
+
+// Undo takes back the last change of the scene (changes of one field in
+// quick succession, such as a slider's drag, count as one).
+func (ws *Workspace) Undo() {
+	if !ws.ctrl.Undo() {
+		ws.note("Nothing to undo")
+	}
+}
+
+// Redo makes the last undone change again.
+func (ws *Workspace) Redo() {
+	if !ws.ctrl.Redo() {
+		ws.note("Nothing to redo")
+	}
 }
