@@ -2,8 +2,18 @@ package tests
 
 import (
 	"context"
+	"math"
 	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"syscall"
 	"testing"
+	"time"
+
+	"faultline/export"
+	"faultline/internal/pyref"
 
 	"faultline/scene"
 	"faultline/sim"
@@ -61,3 +71,106 @@ func benchmarkElasticity(b *testing.B, elasticity string) {
 
 func BenchmarkRender256Isotropic(b *testing.B)   { benchmarkElasticity(b, "isotropic") }
 func BenchmarkRender256Anisotropic(b *testing.B) { benchmarkElasticity(b, "anisotropic") }
+
+// BenchmarkRenderSceneVsNumpy measures, in the same run, the numpy RK4
+// baseline (tests/baseline/rk4_numpy.py, 128×128 columns, dz = 0.2 nm,
+// once) and the default render of the same scene (b.N times), and reports
+// both times (numpy-s, render-s: the fastest of the renders) and their
+// ratio (speedup). The target is a speedup of at least 100.
+func BenchmarkRenderSceneVsNumpy(b *testing.B) {
+	pyref.Require(b, "python3-numpy", "numpy")
+	st := loadScene(b, "testdata/bench_dislocation_inclusion.json", 128, 128, 0)
+	out := filepath.Join(b.TempDir(), "bf.npy")
+	cmd := exec.Command(pyref.Python, "baseline/rk4_numpy.py", strconv.FormatFloat(st.XiGNm, 'g', -1, 64),
+		strconv.FormatFloat(st.Crystal.Elastic.Poisson, 'g', -1, 64), "128", "0.2", out)
+	msg, err := cmd.CombinedOutput()
+	if err != nil {
+		b.Fatalf("%v: %s", err, msg)
+	}
+	// "128x128 columns, 750 steps of 0.200 nm: 16.50 s, ..."
+	m := regexp.MustCompile(`: ([0-9.]+) s,`).FindSubmatch(msg)
+	if m == nil {
+		b.Fatalf("numpy baseline printed %q", msg)
+	}
+	numpy, _ := strconv.ParseFloat(string(m[1]), 64)
+	best := math.Inf(1)
+	cpu := startCPU()
+	for b.Loop() {
+		t0 := time.Now()
+		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
+			b.Fatal(err)
+		}
+		best = math.Min(best, time.Since(t0).Seconds())
+	}
+	cpu.report(b)
+	b.ReportMetric(numpy, "numpy-s")
+	b.ReportMetric(best, "render-s")
+	b.ReportMetric(numpy/best, "speedup")
+}
+
+// BenchmarkDemo512 is the demo scene (assets/demo.json) rendered at 512²
+// at the default tolerance (target: 0.6 s wall on 2 cores).
+func BenchmarkDemo512(b *testing.B) {
+	st := loadScene(b, "../assets/demo.json", 512, 512, 0)
+	cpu := startCPU()
+	for b.Loop() {
+		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	cpu.report(b)
+}
+
+// BenchmarkDemo256Cold and BenchmarkDemo256SChange: the demo scene at
+// 256², rendered from scratch, and re-rendered after a change of s alone
+// (0.004 to 0.006 /nm) by replaying the field samples of a recorded render
+// (target: at most a tenth of the cold render).
+func BenchmarkDemo256Cold(b *testing.B) {
+	st := loadScene(b, "../assets/demo.json", 256, 256, 0)
+	cpu := startCPU()
+	for b.Loop() {
+		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	cpu.report(b)
+}
+
+func BenchmarkDemo256SChange(b *testing.B) {
+	st := loadScene(b, "../assets/demo.json", 256, 256, 0)
+	// Recorded as the window records: slabs that also serve s ± 0.01 /nm.
+	_, samples, err := export.Record(context.Background(), st, sim.Options{}, st.Problem.ThicknessNm, export.NearbyModels(st))
+	if err != nil || samples == nil {
+		b.Fatalf("record: %v", err)
+	}
+	cpu := startCPU()
+	m := st.Problem.Model.(sim.TwoBeam)
+	m.SPerNm = 0.006
+	fresh := 0
+	for b.Loop() {
+		_, n, err := samples.Replay(context.Background(), m, st.Problem.ThicknessNm, sim.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		fresh = n
+	}
+	cpu.report(b)
+	b.ReportMetric(float64(fresh), "fresh-columns")
+}
+
+// cpuClock measures the CPU time (user and system) of the process, which
+// depends far less than wall time on other work sharing the machine.
+type cpuClock struct{ start float64 }
+
+func cpuSeconds() float64 {
+	var ru syscall.Rusage
+	syscall.Getrusage(syscall.RUSAGE_SELF, &ru)
+	return float64(ru.Utime.Sec+ru.Stime.Sec) + float64(ru.Utime.Usec+ru.Stime.Usec)*1e-6
+}
+
+func startCPU() cpuClock { return cpuClock{cpuSeconds()} }
+
+// report adds the CPU seconds per operation (cpu-s/op).
+func (c cpuClock) report(b *testing.B) {
+	b.ReportMetric((cpuSeconds()-c.start)/float64(b.N), "cpu-s/op")
+}
