@@ -9,6 +9,7 @@ import (
 	"io"
 	"math"
 
+	"faultline/internal/atomicfile"
 	"faultline/scene"
 )
 
@@ -205,7 +206,7 @@ func inside(q [2]float64, p [][2]float64) bool {
 }
 
 // labelFiles are labels.json and labels.png of a job.
-func (sw *Sweep) labelFiles(st *scene.Setup) ([]jobFile, error) {
+func (sw *Sweep) labelFiles(st *scene.Setup) ([]atomicfile.File, error) {
 	w := DefaultLabelWidthPx
 	if sw.File.LabelWidthPx != nil {
 		w = *sw.File.LabelWidthPx
@@ -219,8 +220,8 @@ func (sw *Sweep) labelFiles(st *scene.Setup) ([]jobFile, error) {
 		return nil, err
 	}
 	data = append(data, '\n')
-	return []jobFile{
-		{"labels.json", func(w io.Writer) error { _, err := w.Write(data); return err }},
-		{"labels.png", func(w io.Writer) error { return png.Encode(w, img) }},
+	return []atomicfile.File{
+		{Name: "labels.json", Encode: func(w io.Writer) error { _, err := w.Write(data); return err }},
+		{Name: "labels.png", Encode: func(w io.Writer) error { return png.Encode(w, img) }},
 	}, nil
 }

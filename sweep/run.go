@@ -272,15 +272,17 @@ func (sw *Sweep) runJob(ctx context.Context, b *scene.Builder, dir string, k int
 		return r, err
 	}
 	defer os.RemoveAll(tmp) // only left when something failed
+	// The files are written as one set into a fresh directory, and the
+	// directory is renamed into place: jobs/k is whole or absent.
+	if err := atomicfile.WriteSet(ctx, tmp, files); err != nil {
+		return r, err
+	}
 	for _, f := range files {
-		if err := atomicfile.Write(filepath.Join(tmp, f.name), f.write); err != nil {
-			return r, err
-		}
-		sum, n, err := hashFile(filepath.Join(tmp, f.name))
+		sum, n, err := hashFile(filepath.Join(tmp, f.Name))
 		if err != nil {
 			return r, err
 		}
-		r.Files = append(r.Files, FileRecord{Name: f.name, SHA256: sum, Bytes: n})
+		r.Files = append(r.Files, FileRecord{Name: f.Name, SHA256: sum, Bytes: n})
 	}
 	if err := os.Chmod(tmp, 0o755); err != nil {
 		return r, err
@@ -305,21 +307,15 @@ func roundSeconds(d time.Duration) float64 {
 	return float64(d.Round(time.Millisecond)) / float64(time.Second)
 }
 
-// jobFile is one file of a job and how to write it.
-type jobFile struct {
-	name  string
-	write func(w io.Writer) error
-}
-
 // jobFiles lists the files of a job: the asked-for outputs, the job's
 // scene, and the labels.
-func (sw *Sweep) jobFiles(st *scene.Setup, im *sim.Image, sc *scene.Scene) ([]jobFile, error) {
+func (sw *Sweep) jobFiles(st *scene.Setup, im *sim.Image, sc *scene.Scene) ([]atomicfile.File, error) {
 	sceneJSON, err := scene.Marshal(sc)
 	if err != nil {
 		return nil, err
 	}
 	text := map[string]string{export.KeyScene: string(sceneJSON), export.KeySoftware: "Faultline"}
-	files := []jobFile{{"scene.json", func(w io.Writer) error { _, err := w.Write(sceneJSON); return err }}}
+	files := []atomicfile.File{{Name: "scene.json", Encode: func(w io.Writer) error { _, err := w.Write(sceneJSON); return err }}}
 	g := im.Grid
 	for _, o := range sw.File.Outputs {
 		switch o {
@@ -329,18 +325,18 @@ func (sw *Sweep) jobFiles(st *scene.Setup, im *sim.Image, sc *scene.Scene) ([]jo
 				return nil, err
 			}
 			files = append(files,
-				jobFile{"bf.png", func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
-				jobFile{"df.png", func(w io.Writer) error { return figure.EncodePNG(w, df, text) }})
+				atomicfile.File{Name: "bf.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
+				atomicfile.File{Name: "df.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, df, text) }})
 		case "tiff":
 			files = append(files,
-				jobFile{"bf.tiff", func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.BF(), g.NX, g.NY) }},
-				jobFile{"df.tiff", func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.DF(), g.NX, g.NY) }})
+				atomicfile.File{Name: "bf.tiff", Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.BF(), g.NX, g.NY) }},
+				atomicfile.File{Name: "df.tiff", Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.DF(), g.NX, g.NY) }})
 		case "figure":
 			fig, err := export.Figure(st, im, export.DefaultOptions())
 			if err != nil {
 				return nil, err
 			}
-			files = append(files, jobFile{"figure.png", func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }})
+			files = append(files, atomicfile.File{Name: "figure.png", Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }})
 		}
 	}
 	if sw.File.Labels {
