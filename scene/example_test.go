@@ -56,5 +56,5 @@ func Example() {
 	// g = [2 0 0], ξg = 39.0 nm, s = 0.0808 /nm, w = 3.15
 	// builds: material 1, geometry 1, conditions 2
 	// 16×16 columns, mean bright field 0.390
-	// foil.thickness_nm: -5 nm: must be > 0 and ≤ 10000 nm (10 µm, far beyond electron transparency)
+	// foil.thickness_nm: -5 nm: must be ≥ 0.1 and ≤ 10000 nm (from one atomic plane to 10 µm, far beyond electron transparency)
 }

@@ -40,8 +40,9 @@ var (
 	// atoms) to thousands of nm (high order).
 	ExtinctionRange = Range{Min: 1, Max: 1e5, Unit: "nm"}
 	AbsorptionRange = Range{Min: 0, Max: 1, MaxOpen: true, Reason: "ξ_g/ξ'_g; 0 turns absorption off"}
-	// No foil is electron-transparent beyond a few µm even at 3 MV.
-	ThicknessRange = Range{Min: 0, Max: 1e4, MinOpen: true, Unit: "nm", Reason: "10 µm, far beyond electron transparency"}
+	// A foil thinner than 0.1 nm is less than one atomic plane; none is
+	// electron-transparent beyond a few µm even at 3 MV.
+	ThicknessRange = Range{Min: 0.1, Max: 1e4, Unit: "nm", Reason: "from one atomic plane to 10 µm, far beyond electron transparency"}
 	// A side of the field: a strip one pixel high may be narrow, but below
 	// a thousandth of a nanometre it is no length a column resolves.
 	FieldRange        = Range{Min: 1e-3, Max: MaxLengthNm, Unit: "nm", Reason: "from a thousandth of a nanometre to 1 mm"}
@@ -70,7 +71,7 @@ func checkRange(path string, v float64, r Range) error {
 	if r.Reason != "" {
 		msg += " (" + r.Reason + ")"
 	}
-	if v == 0 && r.MinOpen && r.Min == 0 && r.Unit != "" {
+	if v == 0 && r.Unit != "" {
 		msg = "missing or zero; " + msg
 	}
 	return fieldErr(path, "%s", msg)

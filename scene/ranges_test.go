@@ -39,7 +39,7 @@ func TestRangesNameTheirField(t *testing.T) {
 	for _, c := range []struct {
 		text, want string // want "" for accepted
 	}{
-		{sub(base, `"voltage_kv": 200`, `"voltage_kv": 0`), "microscope.voltage_kv: 0 kV: must be ≥ 10 and ≤ 3000 kV"},
+		{sub(base, `"voltage_kv": 200`, `"voltage_kv": 0`), "microscope.voltage_kv: missing or zero; 0 kV: must be ≥ 10 and ≤ 3000 kV"},
 		{sub(base, `"voltage_kv": 200`, `"voltage_kv": 3001`), "microscope.voltage_kv: 3001 kV"},
 		{sub(base, `"voltage_kv": 200`, `"voltage_kv": 3000`), ""},
 		{sub(base, `"g": [2, 0, 0]`, `"g": [5e-324, 0, 0]`), "diffraction.g: [5e-324, 0, 0]: index 0 (5e-324) is below 0.001"},
@@ -52,7 +52,7 @@ func TestRangesNameTheirField(t *testing.T) {
 		{sub(base, `"s_per_nm": 0.01`, `"s_per_nm": 0.01, "extinction_nm": 1e-200`), "diffraction.extinction_nm: 1e-200 nm: must be ≥ 1 and ≤ 100000 nm"},
 		{sub(base, `"s_per_nm": 0.01`, `"s_per_nm": 0.01, "absorption_ratio": 1`), "diffraction.absorption_ratio: 1: must be ≥ 0 and < 1"},
 		{sub(base, `"s_per_nm": 0.01`, `"deviation_from_kikuchi": {"offset": 1, "spacing": 0}`), "diffraction.deviation_from_kikuchi.spacing: 0: must be > 0"},
-		{sub(base, `"thickness_nm": 120`, `"thickness_nm": 1e6`), "foil.thickness_nm: 1e+06 nm: must be > 0 and ≤ 10000 nm"},
+		{sub(base, `"thickness_nm": 120`, `"thickness_nm": 1e6`), "foil.thickness_nm: 1e+06 nm: must be ≥ 0.1 and ≤ 10000 nm"},
 		{sub(base, `"thickness_nm": 120`, `"thickness_nm": 0`), "foil.thickness_nm: missing or zero"},
 		{sub(base, `"thickness_nm": 120`, `"thickness_nm": 120, "normal": [0, 1e-9, 1]`), "foil.normal: [0, 1e-09, 1]: index 1 (1e-09) is below 0.001"},
 		{sub(base, `"width_nm": 200, "height_nm": 200`, `"width_nm": 5e-324, "height_nm": 5e-324`), "image.width_nm: 5e-324 nm: must be ≥ 0.001"},

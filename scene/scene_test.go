@@ -101,7 +101,7 @@ func TestFieldErrors(t *testing.T) {
 		{`[1, 2]`, "must be a JSON object"},
 		{replace(t, `"thickness_nm": 120`, `"thickness_nm": [120]`), "foil.thickness_nm: is array, want a number"},
 		{replace(t, `"at_nm": [0, 0, 60]`, `"at_nm": [0, 1e300, 60]`), "defects[0].at_nm: [0 1e+300 60]: must be ≥ -1e+06 and ≤ 1e+06 nm"},
-		{replace(t, `"thickness_nm": 120`, `"thickness_nm": 1e9`), "foil.thickness_nm: 1e+09 nm: must be > 0 and ≤ 10000 nm"},
+		{replace(t, `"thickness_nm": 120`, `"thickness_nm": 1e9`), "foil.thickness_nm: 1e+09 nm: must be ≥ 0.1 and ≤ 10000 nm"},
 		{replace(t, `"thickness_nm": 120`, `"thickness_nm": 150, "thickness_nm": 5`), "foil.thickness_nm: given twice"},
 		{replace(t, `"s_per_nm": 0.01`, `"weak_beam": {"n": 2.5}`), "diffraction.weak_beam.n: 2.5: the g(ng) condition needs a whole number"},
 		{replace(t, `"b": "1/2[1 1 0]"`, `"b": "1/2[1 1 0]", "b": "[1 0 0]"`), "defects[0].b: given twice"},

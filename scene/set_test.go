@@ -84,7 +84,7 @@ func TestSetErrors(t *testing.T) {
 		{"diffraction.colour", 1, "diffraction.colour", "unknown field"},
 		{"foil.thickness_nm.x", 1, "foil.thickness_nm.x", "holds no fields"},
 		{"foil.thickness_nm", "eighty", "foil.thickness_nm", "is string, want a number"},
-		{"foil.thickness_nm", -5.0, "foil.thickness_nm", "must be > 0 and ≤ 10000 nm"},
+		{"foil.thickness_nm", -5.0, "foil.thickness_nm", "must be ≥ 0.1 and ≤ 10000 nm"},
 		{"foil.thickness_nm", nil, "foil.thickness_nm", "missing"},
 		{"foil.thickness_nm", math.NaN(), "foil.thickness_nm", "must be a finite number"},
 		{"diffraction.g", "2 0 0", "diffraction.g", "is string, want a list"},

@@ -108,8 +108,8 @@ func TestInvalidFieldShowsErrorAndDoesNotRender(t *testing.T) {
 	}
 
 	test.Type(clearEntry(entry), "-5")
-	if !errl.Visible() || !strings.Contains(errl.Text, "must be > 0") {
-		t.Errorf("error under thickness for −5: visible %v, %q; want the scene's range \"must be > 0 …\"", errl.Visible(), errl.Text)
+	if !errl.Visible() || !strings.Contains(errl.Text, "must be ≥ 0.1") {
+		t.Errorf("error under thickness for −5: visible %v, %q; want the scene's range \"must be ≥ 0.1 …\"", errl.Visible(), errl.Text)
 	}
 	var fe *scene.FieldError
 	if !errors.As(ws.ctrl.Err(), &fe) || fe.Path != "foil.thickness_nm" {

@@ -93,7 +93,7 @@ func TestRunSet(t *testing.T) {
 		want string
 	}{
 		{[]string{"profile", a, "--set", "foil.thick=80"}, "error: --set foil.thick: unknown field"},
-		{[]string{"profile", a, "--set", "foil.thickness_nm=-1"}, "error: --set foil.thickness_nm: -1 nm: must be > 0 and ≤ 10000 nm"},
+		{[]string{"profile", a, "--set", "foil.thickness_nm=-1"}, "error: --set foil.thickness_nm: -1 nm: must be ≥ 0.1 and ≤ 10000 nm"},
 		{[]string{"profile", a, "--set", "defects[0].b=1/2[1 0 1]"}, "error: --set defects[0].b: \"1/2[1 0 1]\" is not a JSON value"},
 		{[]string{"profile", a, "--set", "defects[2].b=\"1/2[1 0 1]\""}, "error: --set defects[2]: index out of range"},
 		{[]string{"render", a, "-o", dir, "--set", "diffraction.g=\"200\""}, "error: --set diffraction.g: is string, want a list"},
