@@ -72,6 +72,7 @@ type Setup struct {
 	spheres []sphere            // cavities found while building defects
 	fields  defects.Sum         // one field per defect, in the frame of g
 	normalG r3.Vec              // the foil normal in the frame of g (zero: the beam)
+	zones   *zoneCache          // the zone's reflections, from the geometry stage
 }
 
 // Build turns a validated scene into a Setup in one pass. dir is the
@@ -139,6 +140,7 @@ type geometry struct {
 	gPerNm   float64
 	rotation [3][3]float64
 	field    defects.Sum
+	zones    *zoneCache // the zone's reflections and their structure factors
 	// gAngle is the angle of g in the picture (radians, counter-clockwise
 	// as displayed): 0 unless image.x_axis fixes the picture to the
 	// specimen.
@@ -260,6 +262,7 @@ func (b *Builder) geometry(sc *Scene, mat *material) (*geometry, error) {
 		}
 		geo.spheres, geo.notes = st.spheres, st.Notes
 	}
+	geo.zones = newZoneCache(mat.crystal, geo.beam)
 	b.counts.Geometry++
 	b.geo = geo
 	return geo, nil
@@ -450,7 +453,7 @@ func conditions(sc *Scene, geo *geometry) (*Setup, error) {
 		Grid: sim.Grid{NX: sc.Image.Pixels[0], NY: sc.Image.Pixels[1],
 			WidthNm: sc.Image.WidthNm, HeightNm: sc.Image.HeightNm},
 	}
-	st.fields, st.normalG = geo.field, normal
+	st.fields, st.normalG, st.zones = geo.field, normal, geo.zones
 	if len(geo.field) > 0 {
 		st.Problem.Field = geo.field
 	}

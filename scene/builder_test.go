@@ -76,6 +76,15 @@ func TestBuilderStages(t *testing.T) {
 		if !sameSetup(st, fresh) {
 			t.Errorf("%s: staged build differs from a fresh one", c.path)
 		}
+		// The zone's reflections from the geometry stage's cache are the
+		// ones computed afresh.
+		cached, err1 := st.Reflections(ZoneLimitFactor)
+		bare := *st
+		bare.zones = nil
+		direct, err2 := bare.Reflections(ZoneLimitFactor)
+		if err1 != nil || err2 != nil || !reflect.DeepEqual(cached, direct) || !reflect.DeepEqual(st.Warnings, fresh.Warnings) {
+			t.Errorf("%s: cached reflections or warnings differ (%v, %v)", c.path, err1, err2)
+		}
 	}
 }
 

@@ -45,7 +45,11 @@ func (st *Setup) Reflections(factor float64) ([]Reflection, error) {
 	if !(factor > 0) {
 		factor = ZoneLimitFactor
 	}
-	zone, err := st.Crystal.Zone(st.Beam, factor*st.GPerNm*(1+1e-9))
+	gMax := factor * st.GPerNm * (1 + 1e-9)
+	zone, err := st.zones.zone(gMax)
+	if st.zones == nil {
+		zone, err = st.Crystal.Zone(st.Beam, gMax)
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -111,9 +115,16 @@ func (st *Setup) reflection(hkl [3]float64, forbidden bool) Reflection {
 			r.HKL = four[:]
 		}
 	}
-	r.FgNm = cmplxAbs(st.Crystal.StructureFactor(hkl, st.VoltageKV))
+	var f sfEntry
+	if st.zones != nil {
+		f = st.zones.factors(hkl, st.VoltageKV)
+	} else {
+		f = newZoneCache(st.Crystal, st.Beam).factors(hkl, st.VoltageKV)
+	}
+	r.FgNm = f.fg
 	// A forbidden (or unreachable) reflection has no extinction distance.
-	if xi, err := st.Crystal.ExtinctionDistance(hkl, st.VoltageKV); err == nil {
+	if f.xiOK {
+		xi := f.xi
 		w := s * xi
 		r.ExtinctionNm, r.W = &xi, &w
 	}
