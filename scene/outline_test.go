@@ -111,3 +111,35 @@ func TestOutlineOutsideField(t *testing.T) {
 		t.Errorf("a line at y = 70 nm in a 100 nm field: %v", o[0].Lines)
 	}
 }
+
+// A dissociated dislocation: partials 10 nm apart in (111), line [1 -1 0],
+// seen along [001]. The partials are offset along n × u = [1 1 -2]/√6,
+// whose projection has length 1/√3, so they appear 10/√3 nm apart, and
+// the ribbon between them has that width (parallel projection).
+func TestOutlineDissociated(t *testing.T) {
+	o := outlines(t, `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+	 "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0},
+	 "foil": {"thickness_nm": 80},
+	 "defects": [{"type": "dissociated", "b": "1/2[1 0 -1]", "line": [1, -1, 0], "plane": [1, 1, 1],
+	   "partials": ["1/6[2 -1 -1]", "1/6[1 1 -2]"], "separation_nm": 10, "at_nm": [0, 0, 40]}],
+	 "image": {"width_nm": 100, "height_nm": 100, "pixels": [50, 50]}}`)
+	d := o[0]
+	if len(d.Lines) != 2 || len(d.Polygons) != 1 {
+		t.Fatalf("dissociated: %d lines, %d polygons; want 2 and 1", len(d.Lines), len(d.Polygons))
+	}
+	// Distance of each partial's projection from the centre, along the
+	// in-image normal (1, 1)/√2 of the projected line.
+	want := 10 / math.Sqrt(3)
+	off := func(p Point) float64 { return (p.X + p.Y) / math.Sqrt2 }
+	a, b := off(d.Lines[0][0]), off(d.Lines[1][0])
+	if math.Abs(math.Abs(a-b)-want) > 1e-9 || math.Abs(a+b) > 1e-9 {
+		t.Errorf("partials at %g and %g nm from the centre line, want ±%g", a, b, want/2)
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, p := range d.Polygons[0] {
+		lo, hi = math.Min(lo, off(p)), math.Max(hi, off(p))
+	}
+	if math.Abs(hi-lo-want) > 1e-9 {
+		t.Errorf("ribbon width %g nm, want 10/√3 = %g", hi-lo, want)
+	}
+}
