@@ -123,9 +123,6 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if !(*tol > 0 && *tol <= maxTolerance) {
 		return usageError{fmt.Sprintf("render: --tolerance %g: must be positive and at most %g cycles", *tol, maxTolerance)}
 	}
-	if err := checkOutputDir(*out); err != nil {
-		return err
-	}
 	st, data, err := load(path, true, *set...)
 	if err != nil {
 		return err
@@ -140,6 +137,11 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	}
 	// A figure that cannot be drawn is refused before the render.
 	if err := export.CheckFigure(st, o); err != nil {
+		return err
+	}
+	// After the scene and the figure (bad input leaves no directory behind), before
+	// the render (a bad -o fails at once).
+	if err := checkOutputDir(*out); err != nil {
 		return err
 	}
 	start := time.Now()

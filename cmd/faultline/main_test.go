@@ -510,3 +510,21 @@ func TestPlanWritesCurves(t *testing.T) {
 		}
 	}
 }
+
+// TestBadSceneLeavesNoDirectory: a scene refused before rendering does not
+// create the -o directory.
+func TestBadSceneLeavesNoDirectory(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "new")
+	for _, text := range []string{
+		strings.Replace(sceneText(8, 8, ""), `"thickness_nm": 60`, `"thickness_nm": -1`, 1),
+		sceneText(10000, 1, ""),
+	} {
+		sc := writeFile(t, "s.json", text)
+		if _, _, code := runCLI("render", sc, "-o", out); code != exitBadInput {
+			t.Errorf("exit %d, want 2", code)
+		}
+		if _, err := os.Stat(out); !os.IsNotExist(err) {
+			t.Errorf("-o directory created for a refused scene: %v", err)
+		}
+	}
+}
