@@ -88,3 +88,15 @@ func TestCaptionCarriesTheConditions(t *testing.T) {
 		}
 	}
 }
+
+// ScaleToRange is the linear map of [min, max] onto the reference's
+// [min, max]; NaN stays NaN.
+func TestScaleToRange(t *testing.T) {
+	got, ok := ScaleToRange([]float64{10, math.NaN(), 20, 15}, []float64{0.2, 0.6, 0.4})
+	if !ok || got[0] != 0.2 || !math.IsNaN(got[1]) || got[2] != 0.6 || math.Abs(got[3]-0.4) > 1e-15 {
+		t.Errorf("ScaleToRange = %v, %v", got, ok)
+	}
+	if _, ok := ScaleToRange([]float64{3, 3}, []float64{0, 1}); ok {
+		t.Error("a flat profile was scaled")
+	}
+}

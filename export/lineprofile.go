@@ -74,3 +74,30 @@ func WriteLineProfile(w io.Writer, p LineProfile) error {
 	}
 	return bw.Flush()
 }
+
+// ScaleToRange maps values linearly so that their finite minimum and
+// maximum become those of ref: a measured profile (a micrograph's grey
+// levels, in units of its own) drawn over a simulated one for its shape.
+// NaN values stay NaN. It reports false when either has no finite range.
+func ScaleToRange(values, ref []float64) ([]float64, bool) {
+	lo, hi, ok := finiteRange(values)
+	rlo, rhi, rok := finiteRange(ref)
+	if !ok || !rok || !(hi > lo) {
+		return nil, false
+	}
+	out := make([]float64, len(values))
+	for k, v := range values {
+		out[k] = rlo + (v-lo)*(rhi-rlo)/(hi-lo)
+	}
+	return out, true
+}
+
+func finiteRange(v []float64) (lo, hi float64, ok bool) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, x := range v {
+		if !math.IsNaN(x) && !math.IsInf(x, 0) {
+			lo, hi = math.Min(lo, x), math.Max(hi, x)
+		}
+	}
+	return lo, hi, lo <= hi
+}

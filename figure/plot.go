@@ -175,7 +175,7 @@ func (p Plot) Image(w, h int, dpi float64) (*image.RGBA, error) {
 	lr := leg.Rectangle(dc)
 	legW := lr.Max.X - lr.Min.X
 	if legW > 0 {
-		legW += 2 * pad
+		legW += 3 * pad
 	}
 	pl.Draw(draw.Crop(dc, 0, -legW, 0, 0))
 	if legW > 0 {

@@ -141,9 +141,6 @@ func (v *imageView) toggleTool() {
 func (v *imageView) show(r *Result) {
 	v.res = r
 	v.redraw()
-	for _, f := range v.onLine {
-		f(true)
-	}
 }
 
 // redraw maps the shown render to grey and updates every panel.
@@ -168,6 +165,10 @@ func (v *imageView) redraw() {
 	v.updateExtra()
 	v.updateTags()
 	v.refreshAll()
+	// The profile follows the render and the micrograph shown.
+	for _, f := range v.onLine {
+		f(true)
+	}
 }
 
 // simGAngleDeg is the direction of g in the simulated pictures shown.

@@ -3,6 +3,7 @@ package ui
 import (
 	"fmt"
 	"image"
+	"math"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/canvas"
@@ -26,8 +27,10 @@ func (l profileLine) lengthNm() float64 { return l.line().LengthNm() }
 func (l profileLine) line() export.Line { return export.Line{X0: l.X0, Y0: l.Y0, X1: l.X1, Y1: l.Y1} }
 
 // profilePlot is the plot of a profile: BF and DF along the line, the
-// y-axis scaled to the data or fixed at 0–1.
-func profilePlot(p export.LineProfile, unit bool) figure.Plot {
+// micrograph along the same line when one is shown (micro, NaN where the
+// line leaves it, already scaled), the y-axis scaled to the data or fixed
+// at 0–1.
+func profilePlot(p export.LineProfile, unit bool, micro []float64, microName string) figure.Plot {
 	pl := figure.Plot{
 		XLabel: "distance along the line (nm)",
 		YLabel: "intensity / incident",
@@ -35,6 +38,9 @@ func profilePlot(p export.LineProfile, unit bool) figure.Plot {
 			{Name: "BF", X: p.DistNm, Y: p.BF},
 			{Name: "DF", X: p.DistNm, Y: p.DF},
 		},
+	}
+	if micro != nil {
+		pl.Series = append(pl.Series, figure.Series{Name: microName, X: p.DistNm, Y: micro, Dashed: true})
 	}
 	if unit {
 		pl.Y = figure.YUnit
@@ -48,7 +54,10 @@ type profilePanel struct {
 	raster *canvas.Raster
 	hint   *widget.Label
 	info   *widget.Label
+	unit   *widget.Check
 	cur    export.LineProfile
+	micro  []float64 // the micrograph along the line, scaled; nil if none
+	mName  string
 	have   bool
 }
 
@@ -62,9 +71,10 @@ func profilePanelObject(ws *Workspace) fyne.CanvasObject {
 	pp.hint.TextStyle = fyne.TextStyle{Italic: true}
 	pp.info = widget.NewLabel("")
 	pp.info.TextStyle = fyne.TextStyle{Italic: true}
+	pp.unit = widget.NewCheck("y 0–1", func(bool) { pp.raster.Refresh() })
 	ws.view.onLine = append(ws.view.onLine, pp.update)
 	plotBox := container.NewStack(pp.raster, container.NewCenter(pp.hint))
-	box := container.NewBorder(pp.info, nil, nil, nil, plotBox)
+	box := container.NewBorder(container.NewBorder(nil, nil, nil, pp.unit, pp.info), nil, nil, nil, plotBox)
 	pp.update(true)
 	return container.New(minHeight(230), box)
 }
@@ -86,6 +96,24 @@ func (pp *profilePanel) update(final bool) {
 	} else {
 		pp.hint.Show()
 	}
+	pp.micro, pp.mName = nil, ""
+	if m := pp.ws.micro; pp.have && m != nil && m.img != nil && m.Compare != compareOff {
+		raw := make([]float64, len(pp.cur.DistNm))
+		for k := range raw {
+			val, ok := m.valueAt(pp.cur.XNm[k], pp.cur.YNm[k], v.simGAngleDeg())
+			raw[k] = math.NaN()
+			if ok {
+				raw[k] = val
+			}
+		}
+		ref, name := pp.cur.BF, "BF"
+		if m.Compare == compareBlend && !m.BlendBF {
+			ref, name = pp.cur.DF, "DF"
+		}
+		if scaled, ok := export.ScaleToRange(raw, ref); ok {
+			pp.micro, pp.mName = scaled, "micrograph, scaled to "+name
+		}
+	}
 	l := v.line
 	pp.info.SetText(fmt.Sprintf("Line profile from (%.1f, %.1f) to (%.1f, %.1f) nm, %.1f nm long",
 		l.X0, l.Y0, l.X1, l.Y1, l.lengthNm()))
@@ -101,7 +129,7 @@ func (pp *profilePanel) draw(w, h int) image.Image {
 	if s := pp.raster.Size(); s.Width > 0 {
 		scale = float64(w) / float64(s.Width)
 	}
-	img, err := profilePlot(pp.cur, false).Image(w, h, 96*scale)
+	img, err := profilePlot(pp.cur, pp.unit.Checked, pp.micro, pp.mName).Image(w, h, 96*scale)
 	if err != nil {
 		return image.NewRGBA(image.Rect(0, 0, w, h))
 	}
