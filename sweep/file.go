@@ -25,7 +25,7 @@ const FileVersion = 1
 const MaxJobs = 10000
 
 // HardMaxJobs bounds a sweep even with Force.
-const HardMaxJobs = 100_000_000
+const HardMaxJobs = 10_000_000
 
 // File is a sweep file as written.
 type File struct {
@@ -256,7 +256,7 @@ func expand(f File, base *scene.Scene, sceneDir string, force bool) (*Sweep, err
 		}
 		n := 1
 		for i, a := range f.Axes {
-			vals, err := axisValues(fmt.Sprintf("axes[%d]", i), a)
+			vals, err := axisValues(fmt.Sprintf("axes[%d]", i), a, force)
 			if err != nil {
 				return nil, err
 			}
@@ -300,7 +300,7 @@ func expand(f File, base *scene.Scene, sceneDir string, force bool) (*Sweep, err
 }
 
 // axisValues lists the values of a grid or zip axis.
-func axisValues(p string, a Axis) ([]json.RawMessage, error) {
+func axisValues(p string, a Axis, force bool) ([]json.RawMessage, error) {
 	if a.Distribution != "" || a.Min != nil || a.Max != nil || a.Mean != nil || a.SD != nil {
 		return nil, errf(p, "distributions (distribution, min, max, mean, sd) belong to a random sweep")
 	}
@@ -313,7 +313,7 @@ func axisValues(p string, a Axis) ([]json.RawMessage, error) {
 		}
 		return a.Values, nil
 	case a.Range != nil:
-		return rangeValues(p+".range", a.Range)
+		return rangeValues(p+".range", a.Range, force)
 	}
 	return nil, errf(p, "give values [...] or range [from, to, step]")
 }
@@ -321,7 +321,7 @@ func axisValues(p string, a Axis) ([]json.RawMessage, error) {
 // rangeValues expands [from, to, step] with to included (within a
 // millionth of a step), each value rounded to the decimals of from and
 // step so 0 is 0 and not 1.7e-18.
-func rangeValues(p string, r []float64) ([]json.RawMessage, error) {
+func rangeValues(p string, r []float64, force bool) ([]json.RawMessage, error) {
 	if len(r) != 3 {
 		return nil, errf(p, "has %d numbers; write [from, to, step]", len(r))
 	}
@@ -338,6 +338,9 @@ func rangeValues(p string, r []float64) ([]json.RawMessage, error) {
 		return nil, errf(p, "step %g goes away from %g to %g", step, from, to)
 	}
 	steps := math.Floor((to-from)/step + 1e-6)
+	if steps+1 > MaxJobs && !force {
+		return nil, errf("axes", "the sweep has more than %d jobs (%s alone has %.0f values); give --force to run it anyway", MaxJobs, p, steps+1)
+	}
 	if steps+1 > HardMaxJobs {
 		return nil, errf(p, "has more than %d values", HardMaxJobs)
 	}

@@ -292,7 +292,7 @@ func TestRandomSweepReproducible(t *testing.T) {
 }
 
 func TestRangeValues(t *testing.T) {
-	vals, err := rangeValues("r", []float64{-0.02, 0.02, 0.005})
+	vals, err := rangeValues("r", []float64{-0.02, 0.02, 0.005}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -304,7 +304,7 @@ func TestRangeValues(t *testing.T) {
 	if strings.Join(got, " ") != want {
 		t.Errorf("range = %s, want %s", strings.Join(got, " "), want)
 	}
-	if vals, _ := rangeValues("r", []float64{100, 80, -10}); len(vals) != 3 {
+	if vals, _ := rangeValues("r", []float64{100, 80, -10}, false); len(vals) != 3 {
 		t.Errorf("descending range: %d values", len(vals))
 	}
 }

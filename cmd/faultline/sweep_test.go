@@ -46,7 +46,7 @@ func TestSweepBadInput(t *testing.T) {
 		{"zero step", []string{"sweep", write("d.json", `{"path": "diffraction.s_per_nm", "range": [-0.01, 0.01, 0]}`, ""), "-o", dir + "/d"},
 			"error: axes[0].range: step is zero"},
 		{"too many jobs", []string{"sweep", write("e.json", `{"path": "foil.thickness_nm", "range": [50, 150, 0.01]}`, ""), "-o", dir + "/e"},
-			"error: axes: the sweep has 10001 jobs, more than 10000; give --force"},
+			"error: axes: the sweep has more than 10000 jobs (axes[0].range alone has 10001 values); give --force"},
 		{"shard out of range", []string{"sweep", good, "-o", dir + "/f", "--shard", "3/3"},
 			"error: --shard: shard 3 of 3: shards are numbered 0 to 2"},
 		{"another sweep's directory", []string{"sweep", other, "-o", out},
