@@ -159,3 +159,13 @@ func TestCsqrt(t *testing.T) {
 		}
 	}
 }
+
+// expi against math.Sincos on both sides of its series threshold.
+func TestExpi(t *testing.T) {
+	for _, x := range []float64{0, 1e-9, -3e-5, 0.0031, -0.0099, 0.00999999, 0.01, -0.02, 1, -3} {
+		s, c := math.Sincos(x)
+		if d := cmplx.Abs(expi(x) - complex(c, s)); d > 2e-16 {
+			t.Errorf("expi(%g) = %v, sincos gives %v (difference %.2g)", x, expi(x), complex(c, s), d)
+		}
+	}
+}
