@@ -2,6 +2,7 @@ package export
 
 import (
 	"bufio"
+	"bytes"
 	"context"
 	"fmt"
 	"image"
@@ -175,6 +176,13 @@ type Options struct {
 	// beam_N.tiff for the beam N·g (beam_-1.tiff, beam_2.tiff, …); the
 	// transmitted beam and g are bf.tiff and df.tiff.
 	AllBeams bool
+	// MRC also writes bf.mrc and df.mrc.
+	MRC bool
+	// Print, when set, makes figure.png the figure at a physical size
+	// (PaperFigure), and FigureFormat pdf or svg adds figure.pdf or
+	// figure.svg drawn the same way.
+	Print        *figure.Print
+	FigureFormat string
 }
 
 // captionLines returns the caption of a figure: the conditions, and with
@@ -297,9 +305,11 @@ const (
 	FileDFTIFF = "df.tiff"
 )
 
-// WriteAll writes bf.png, df.png, figure.png, bf.tiff and df.tiff into dir
+// WriteAll writes bf.png, df.png, figure.png, bf.tiff and df.tiff (and,
+// with o.MRC, bf.mrc and df.mrc; with o.Print, the print figure) into dir
 // (created with its missing parents). sceneJSON is stored in a text chunk
-// of every PNG so the image carries what made it. Everything is encoded
+// of every PNG and in the TIFFs' description so the image carries what
+// made it. Everything is encoded
 // before the first file is touched, and the files are written as one set
 // (atomicfile.WriteSet): a failure, or a cancelled ctx, leaves the
 // directory as it was. A failure to write is an *atomicfile.Error naming
@@ -310,36 +320,62 @@ func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, s
 	if err != nil {
 		return err
 	}
-	fig, err := Figure(st, im, o)
+	tiffs, err := BeamTIFFs(im, sceneJSON)
 	if err != nil {
 		return err
 	}
-	files := append([]atomicfile.File{
+	files := []atomicfile.File{
 		{Name: FileBFPNG, Encode: func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
 		{Name: FileDFPNG, Encode: func(w io.Writer) error { return figure.EncodePNG(w, df, text) }},
-		{Name: FileFigure, Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }},
-	}, tiffFiles(im)...)
+		{Name: FileBFTIFF, Encode: tiffs[0]},
+		{Name: FileDFTIFF, Encode: tiffs[1]},
+	}
+	if o.Print == nil {
+		fig, err := Figure(st, im, o)
+		if err != nil {
+			return err
+		}
+		files = append(files, atomicfile.File{Name: FileFigure, Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }})
+	} else {
+		// The print figure in PNG and, if asked, in a vector format,
+		// drawn before any file is touched.
+		formats := []string{figure.PaperPNG}
+		if o.FigureFormat != "" && o.FigureFormat != figure.PaperPNG {
+			formats = append(formats, o.FigureFormat)
+		}
+		for _, f := range formats {
+			var buf bytes.Buffer
+			if err := PaperFigure(&buf, f, st, im, o, *o.Print, text); err != nil {
+				return err
+			}
+			b := buf.Bytes()
+			files = append(files, atomicfile.File{Name: "figure." + f, Encode: func(w io.Writer) error { _, err := w.Write(b); return err }})
+		}
+	}
 	if o.AllBeams {
 		g := im.Grid
+		px, err := figure.PixelSizeNm(g)
+		if err != nil {
+			return err
+		}
+		meta := figure.TIFFMeta{NmPerPx: px, Scene: string(sceneJSON)}
 		for k, n := range im.Beams {
 			if n == 0 || n == 1 {
 				continue
 			}
 			plane := im.Intensity[k]
 			files = append(files, atomicfile.File{Name: fmt.Sprintf("beam_%d.tiff", n),
-				Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, plane, g.NX, g.NY) }})
+				Encode: func(w io.Writer) error { return figure.EncodeCalibratedTIFF(w, plane, g.NX, g.NY, meta) }})
 		}
 	}
-	return atomicfile.WriteSet(ctx, dir, files)
-}
-
-// tiffFiles are bf.tiff and df.tiff of im.
-func tiffFiles(im *sim.Image) []atomicfile.File {
-	g := im.Grid
-	return []atomicfile.File{
-		{Name: FileBFTIFF, Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.BF(), g.NX, g.NY) }},
-		{Name: FileDFTIFF, Encode: func(w io.Writer) error { return figure.EncodeFloatTIFF(w, im.DF(), g.NX, g.NY) }},
+	if o.MRC {
+		mrcs, err := BeamMRCs(im)
+		if err != nil {
+			return err
+		}
+		files = append(files, atomicfile.File{Name: "bf.mrc", Encode: mrcs[0]}, atomicfile.File{Name: "df.mrc", Encode: mrcs[1]})
 	}
+	return atomicfile.WriteSet(ctx, dir, files)
 }
 
 // TIFFNames are the paths WriteTIFFs writes in dir.
@@ -347,15 +383,21 @@ func TIFFNames(dir string) []string {
 	return []string{filepath.Join(dir, FileBFTIFF), filepath.Join(dir, FileDFTIFF)}
 }
 
-// WriteTIFFs writes the bright and dark field into dir as 32-bit float
-// TIFFs, fractions of the incident beam, under the names the command line
-// gives them (bf.tiff, df.tiff), as one set like WriteAll, and returns
-// their paths.
-func WriteTIFFs(dir string, im *sim.Image) ([]string, error) {
+// WriteTIFFs writes the bright and dark field into dir as calibrated
+// 32-bit float TIFFs (BeamTIFFs: fractions of the incident beam, the pixel
+// size and the scene sceneJSON, nil for none), under the names the command
+// line gives them (bf.tiff, df.tiff), as one set like WriteAll, and
+// returns their paths.
+func WriteTIFFs(dir string, im *sim.Image, sceneJSON []byte) ([]string, error) {
 	if im.BF() == nil || im.DF() == nil {
 		return nil, fmt.Errorf("export: beams %v hold no bright and dark field", im.Beams)
 	}
-	if err := atomicfile.WriteSet(context.Background(), dir, tiffFiles(im)); err != nil {
+	tiffs, err := BeamTIFFs(im, sceneJSON)
+	if err != nil {
+		return nil, err
+	}
+	files := []atomicfile.File{{Name: FileBFTIFF, Encode: tiffs[0]}, {Name: FileDFTIFF, Encode: tiffs[1]}}
+	if err := atomicfile.WriteSet(context.Background(), dir, files); err != nil {
 		return nil, err
 	}
 	return TIFFNames(dir), nil

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 )
 
 // TIFF tags used by the float TIFF (TIFF 6.0, sections 8 and 19).
@@ -55,7 +56,7 @@ func EncodeFloatTIFF(w io.Writer, data []float64, nx, ny int) error {
 	if err := checkRaster(len(data), nx, ny); err != nil {
 		return err
 	}
-	return encodeFloatTIFF(w, data, nx, ny, binary.LittleEndian)
+	return encodeFloatTIFF(w, data, nx, ny, binary.LittleEndian, TIFFMeta{})
 }
 
 func checkRaster(n, nx, ny int) error {
@@ -68,10 +69,18 @@ func checkRaster(n, nx, ny int) error {
 	return nil
 }
 
+// entry is one IFD entry as written.
+type entry struct {
+	tag, typ uint16
+	count    uint32
+	value    uint32 // the value itself, or the offset of the values
+	inline   []byte // values of at most 4 bytes kept in the entry, if set
+}
+
 // encodeFloatTIFF lays the file out as header, image strips, strip tables,
 // then the image file directory (IFD); the order is free in TIFF as long as
 // every value starts on a word boundary (TIFF 6.0, section 2).
-func encodeFloatTIFF(w io.Writer, data []float64, nx, ny int, bo binary.ByteOrder) error {
+func encodeFloatTIFF(w io.Writer, data []float64, nx, ny int, bo binary.ByteOrder, meta TIFFMeta) error {
 	rowBytes := 4 * nx
 	rowsPerStrip := max(1, stripBytes/rowBytes)
 	rowsPerStrip = min(rowsPerStrip, ny)
@@ -86,36 +95,37 @@ func encodeFloatTIFF(w io.Writer, data []float64, nx, ny int, bo binary.ByteOrde
 		counts[s] = uint32(rows * rowBytes)
 	}
 	// Arrays of more than one LONG do not fit in the 4-byte value field of
-	// an IFD entry and go after the image data.
+	// an IFD entry and go after the image data, as do the resolutions and
+	// the texts.
 	tables := uint32(8) + imageBytes
 	offsetsAt, countsAt := tables, tables+4*uint32(nStrips)
 	ifdAt := tables
 	if nStrips > 1 {
 		ifdAt += 8 * uint32(nStrips)
 	}
+	extra, extraEntries := meta.entries(ifdAt, bo)
+	ifdAt += uint32(len(extra))
 
-	type entry struct {
-		tag, typ uint16
-		count    uint32
-		value    uint32 // the value itself, or the offset of the values
-	}
 	entries := []entry{
-		{tagImageWidth, typeLong, 1, uint32(nx)},
-		{tagImageLength, typeLong, 1, uint32(ny)},
-		{tagBitsPerSample, typeShort, 1, 32},
-		{tagCompression, typeShort, 1, 1}, // none
-		{tagPhotometric, typeShort, 1, 1}, // BlackIsZero
-		{tagStripOffsets, typeLong, uint32(nStrips), offsetsAt},
-		{tagSamplesPerPixel, typeShort, 1, 1},
-		{tagRowsPerStrip, typeLong, 1, uint32(rowsPerStrip)},
-		{tagStripByteCounts, typeLong, uint32(nStrips), countsAt},
-		{tagPlanarConfig, typeShort, 1, 1}, // chunky
-		{tagSampleFormat, typeShort, 1, 3}, // IEEE floating point
+		{tagImageWidth, typeLong, 1, uint32(nx), nil},
+		{tagImageLength, typeLong, 1, uint32(ny), nil},
+		{tagBitsPerSample, typeShort, 1, 32, nil},
+		{tagCompression, typeShort, 1, 1, nil}, // none
+		{tagPhotometric, typeShort, 1, 1, nil}, // BlackIsZero
+		{tagStripOffsets, typeLong, uint32(nStrips), offsetsAt, nil},
+		{tagSamplesPerPixel, typeShort, 1, 1, nil},
+		{tagRowsPerStrip, typeLong, 1, uint32(rowsPerStrip), nil},
+		{tagStripByteCounts, typeLong, uint32(nStrips), countsAt, nil},
+		{tagPlanarConfig, typeShort, 1, 1, nil}, // chunky
+		{tagSampleFormat, typeShort, 1, 3, nil}, // IEEE floating point
 	}
 	if nStrips == 1 {
 		entries[5].value = offsets[0]
 		entries[8].value = counts[0]
 	}
+	entries = append(entries, extraEntries...)
+	// TIFF 6.0 (section 2) wants the entries sorted by tag.
+	slices.SortStableFunc(entries, func(a, b entry) int { return int(a.tag) - int(b.tag) })
 
 	var hdr [8]byte
 	if bo == binary.LittleEndian {
@@ -147,6 +157,9 @@ func encodeFloatTIFF(w io.Writer, data []float64, nx, ny int, bo binary.ByteOrde
 			return err
 		}
 	}
+	if _, err := w.Write(extra); err != nil {
+		return err
+	}
 	ifd := make([]byte, 2+12*len(entries)+4)
 	bo.PutUint16(ifd, uint16(len(entries)))
 	for k, e := range entries {
@@ -154,9 +167,12 @@ func encodeFloatTIFF(w io.Writer, data []float64, nx, ny int, bo binary.ByteOrde
 		bo.PutUint16(p[0:], e.tag)
 		bo.PutUint16(p[2:], e.typ)
 		bo.PutUint32(p[4:], e.count)
-		if e.typ == typeShort && e.count == 1 {
+		switch {
+		case e.inline != nil:
+			copy(p[8:12], e.inline)
+		case e.typ == typeShort && e.count == 1:
 			bo.PutUint16(p[8:], uint16(e.value)) // left-justified in the field
-		} else {
+		default:
 			bo.PutUint32(p[8:], e.value)
 		}
 	}

@@ -64,7 +64,7 @@ func TestFloatTIFFRoundTrip(t *testing.T) {
 func TestFloatTIFFBigEndian(t *testing.T) {
 	data := tiffData(40, 900) // several strips
 	var buf bytes.Buffer
-	if err := encodeFloatTIFF(&buf, data, 40, 900, binary.BigEndian); err != nil {
+	if err := encodeFloatTIFF(&buf, data, 40, 900, binary.BigEndian, TIFFMeta{NmPerPx: 0.5, Scene: `{"a": 1}`}); err != nil {
 		t.Fatal(err)
 	}
 	got, nx, ny, err := ReadFloatTIFF(&buf)

@@ -10,7 +10,7 @@ import (
 
 // dmPixel describes the pixels of each DM image data type (the DataType
 // tag of an image): bytes per pixel, the simple type of one value, and
-// words for the user. RGB pixels are 4 bytes, red, green, blue, then one
+// words for the user. RGB pixels are 4 bytes: blue, green, red, then one
 // unused byte.
 var dmPixel = map[int]struct {
 	size int64
@@ -149,7 +149,7 @@ func readDMPixels(d *dmReader, off, size int64, typ uint64, m *Image) error {
 		for i := range c {
 			p := b[i*size : (i+1)*size]
 			if typ == 0 {
-				m.Pix[k+i] = float32(0.299*float64(p[0]) + 0.587*float64(p[1]) + 0.114*float64(p[2]))
+				m.Pix[k+i] = float32(0.299*float64(p[2]) + 0.587*float64(p[1]) + 0.114*float64(p[0]))
 				continue
 			}
 			m.Pix[k+i] = float32(dmNumber(typ, p, d.bo))

@@ -80,14 +80,16 @@ func (ws *Workspace) ExportFigure(path string, o FigureOptions) error {
 }
 
 // ExportTIFF writes the bright and dark field into dir as 32-bit float
-// TIFFs (fractions of the incident beam) under the names the command line
-// gives them, bf.tiff and df.tiff, and returns the two paths.
+// TIFFs (fractions of the incident beam, with their pixel size and the
+// scene) as the command line writes them, bf.tiff and df.tiff, and
+// returns the two paths.
 func (ws *Workspace) ExportTIFF(dir string) ([]string, error) {
 	_, im, err := ws.currentFull()
 	if err != nil {
 		return nil, err
 	}
-	return export.WriteTIFFs(dir, im)
+	data, _ := scene.Marshal(ws.ctrl.Scene())
+	return export.WriteTIFFs(dir, im, data)
 }
 
 // ExportProfile writes the line profile as CSV: along the drawn line

@@ -30,8 +30,9 @@ var commandUsage = map[string]string{
 Simulates SCENE and writes into DIR (created with its missing parents):
 bf.png, df.png (8-bit, grey = 255·I), figure.png (the labelled pair),
 bf.tiff, df.tiff (32-bit float, fraction of the incident beam; df is the g
-beam for every model). The files are written as one set: a failure leaves
-DIR as it was.
+beam for every model; the pixel size in nm in the resolution tags and an
+ImageJ-style description, the scene in the description). The files are
+written as one set: a failure leaves DIR as it was.
 
 On stderr, after any notes, one "reading:" line per defect: what a
 microscopist would read from its image under the scene's g and s (fault
@@ -50,6 +51,13 @@ inside–outside contrast, a precipitate's misfit sign).
            fixed: grey = 255·I, white = the incident beam
   --clip PERCENT  with stretch, the percentage of pixels clipped at each
            end of the range (default 0.5, from 0 up to but not including 50)
+  --format mrc  also write bf.mrc, df.mrc (MRC 2014, voxel size set)
+  --figure-width-mm W, --dpi D
+           figure.png for print: W mm wide at D dots per inch (default
+           85 mm, one journal column, at 600 dpi), resolution stored
+  --figure-format pdf|svg
+           also figure.pdf or figure.svg at that width: labels, scale bar,
+           g arrow and conditions as vectors around the images
   --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
   --tolerance CYCLES  step-control tolerance of the column integrator, in
            cycles of g·R (default 5e-05: every pixel within 1e-4 of the
@@ -68,6 +76,16 @@ samples per pixel along the line, interpolated between pixel centres.
   --from X,Y      start of the line, nm
   --to X,Y        end of the line, nm
   --set PATH=VALUE  override a field of the scene (JSON value; repeatable)
+`,
+	"inspect": `usage: faultline inspect IMG[#N] [--json]
+
+What a micrograph file holds: format, size, pixel size in nm and where it
+was found, the range of its values, and what the file records of the
+acquisition (voltage, magnification or camera length, date, the image of
+a stack). Reads PNG, JPEG, TIFF (8/16-bit, 32-bit float), DM3, DM4 and
+MRC 2014; #N after the name picks image N of a stack, counted from 0.
+
+  --json   write JSON: width, height, nm_per_px, format, kind, metadata, ...
 `,
 	"reflections": `usage: faultline reflections SCENE [--json]
 
@@ -95,6 +113,10 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	out := fs.String("o", "", "output directory")
 	caption := fs.String("caption", "short", "figure caption: short (the conditions) or long (also the reading of every defect)")
 	allBeams := fs.Bool("all-beams", false, "also write beam_N.tiff for every other beam N·g of the model")
+	format := fs.String("format", "", "extra raw image format: mrc")
+	widthMm := fs.Float64("figure-width-mm", 0, "figure.png at this printed width, mm")
+	dpi := fs.Float64("dpi", 0, "figure.png resolution, dots per inch")
+	figFormat := fs.String("figure-format", "", "also figure.pdf or figure.svg: pdf or svg")
 	set := setFlag(fs)
 	tol := fs.Float64("tolerance", sim.DefaultTolerance, "step-control tolerance, cycles")
 	grey := fs.String("grey", "stretch", "grey scale of figure.png: fixed or stretch")
@@ -123,12 +145,22 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if !(*tol > 0 && *tol <= maxTolerance) {
 		return usageError{fmt.Sprintf("render: --tolerance %g: must be positive and at most %g cycles", *tol, maxTolerance)}
 	}
+	o := export.DefaultOptions()
+	switch *format {
+	case "":
+	case "mrc":
+		o.MRC = true
+	default:
+		return usageError{fmt.Sprintf("--format %s: the formats are mrc (bf.mrc, df.mrc beside the TIFFs)", *format)}
+	}
+	if err := printOptions(fs, &o, *widthMm, *dpi, *figFormat); err != nil {
+		return err
+	}
 	st, data, err := load(path, true, *set...)
 	if err != nil {
 		return err
 	}
 	st.Problem.Tolerance = *tol
-	o := export.DefaultOptions()
 	o.Readings = *caption == "long"
 	o.AllBeams = *allBeams
 	o.FigureMapping = figure.Mapping{Mode: figure.ModeAuto, ClipPercent: *clip}
@@ -330,6 +362,12 @@ func cmdReflections(args []string, stdout io.Writer) error {
 // in any order. -h or --help prints the command's usage on stdout and
 // returns errHelp.
 func parse(fs *flag.FlagSet, args []string, stdout io.Writer) (string, error) {
+	return parseArg(fs, args, stdout, "scene file")
+}
+
+// parseArg reads one positional argument (what it is: what) and the flags
+// of fs, in any order, as parse does.
+func parseArg(fs *flag.FlagSet, args []string, stdout io.Writer, what string) (string, error) {
 	fs.SetOutput(io.Discard)
 	var pos []string
 	for {
@@ -355,7 +393,7 @@ func parse(fs *flag.FlagSet, args []string, stdout io.Writer) (string, error) {
 		args = args[1:]
 	}
 	if len(pos) != 1 {
-		return "", usageError{fmt.Sprintf("%s: give one scene file (got %d arguments; see faultline %s --help)", fs.Name(), len(pos), fs.Name())}
+		return "", usageError{fmt.Sprintf("%s: give one %s (got %d arguments; see faultline %s --help)", fs.Name(), what, len(pos), fs.Name())}
 	}
 	return pos[0], nil
 }

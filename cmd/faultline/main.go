@@ -64,6 +64,7 @@ const usage = `usage:
   faultline render SCENE -o DIR [--all-beams]
                                           write bf.png, df.png, figure.png, bf.tiff, df.tiff
                                           (df: the g beam); --all-beams adds beam_N.tiff
+        [--format mrc] [--figure-width-mm W] [--dpi D] [--figure-format pdf|svg]
   faultline profile SCENE [--y-nm Y]      CSV x_nm,bf,df along the pixel row nearest y = Y nm
   faultline profile SCENE --from X,Y --to X,Y
                                           CSV distance_nm,x_nm,y_nm,bf,df along a line
@@ -71,6 +72,7 @@ const usage = `usage:
   faultline plan SCENE -o DIR [--thickness-nm A:B:STEP] [--s-per-nm A:B:STEP] [--candidates 1/2<110>]
                                           thickness, rocking, visibility and weak-beam
                                           curves, g·b table, suggested conditions
+  faultline inspect IMG[#N] [--json]      what a micrograph file holds (PNG, TIFF, DM3, DM4, MRC)
   faultline identify SET [--json] [-o DIR]
                                           rank candidate Burgers vectors (or a loop's
                                           nature, a fault's kind) against a g·b series
@@ -118,6 +120,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 		err = cmdRender(ctx, args[1:], stdout, stderr)
 	case "profile":
 		err = cmdProfile(ctx, args[1:], stdout)
+	case "inspect":
+		err = cmdInspect(args[1:], stdout)
 	case "reflections":
 		err = cmdReflections(args[1:], stdout)
 	case "identify":
@@ -132,7 +136,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 		fmt.Fprint(stdout, usage)
 		return exitOK
 	default:
-		err = usageError{fmt.Sprintf("unknown command %s; the commands are render, profile, reflections, plan, identify, fit, sweep", cutQuoted(fmt.Sprintf("%q", args[0])))}
+		err = usageError{fmt.Sprintf("unknown command %s; the commands are render, profile, reflections, inspect, plan, identify, fit, sweep", cutQuoted(fmt.Sprintf("%q", args[0])))}
 	}
 	if err == nil || errors.Is(err, errHelp) {
 		return exitOK
