@@ -53,21 +53,20 @@ func num(x float64) string {
 }
 
 func (p *Plan) files() []atomicfile.File {
-	cond := p.Setup.Describe()
 	var fs []atomicfile.File
 	fs = append(fs, csvFile("thickness.csv", func(w io.Writer) {
 		fmt.Fprintln(w, "thickness_nm,bf,df")
 		for i, t := range p.Thickness.X {
 			fmt.Fprintf(w, "%s,%s,%s\n", num(t), num(p.Thickness.BF[i]), num(p.Thickness.DF[i]))
 		}
-	}), plotFile("thickness.png", figure.Plot{Title: "Thickness fringes, perfect crystal — " + cond, XLabel: "thickness (nm)", YLabel: "intensity (of the incident beam)", Y: figure.YUnit,
+	}), plotFile("thickness.png", figure.Plot{Title: fmt.Sprintf("Thickness fringes, perfect crystal, s = %.4g /nm", p.Setup.SPerNm), XLabel: "thickness (nm)", YLabel: "intensity (of the incident beam)", Y: figure.YUnit,
 		Series: []figure.Series{{Name: "bright field", X: p.Thickness.X, Y: p.Thickness.BF}, {Name: "dark field", X: p.Thickness.X, Y: p.Thickness.DF}}}))
 	fs = append(fs, csvFile("rocking.csv", func(w io.Writer) {
 		fmt.Fprintln(w, "s_per_nm,bf,df")
 		for i, s := range p.Rocking.X {
 			fmt.Fprintf(w, "%s,%s,%s\n", num(s), num(p.Rocking.BF[i]), num(p.Rocking.DF[i]))
 		}
-	}), plotFile("rocking.png", figure.Plot{Title: fmt.Sprintf("Rocking curve at t = %g nm — %s", p.Setup.Problem.ThicknessNm, cond), XLabel: "s (1/nm)", YLabel: "intensity (of the incident beam)", Y: figure.YUnit,
+	}), plotFile("rocking.png", figure.Plot{Title: fmt.Sprintf("Rocking curve, perfect crystal, t = %g nm", p.Setup.Problem.ThicknessNm), XLabel: "s (1/nm)", YLabel: "intensity (of the incident beam)", Y: figure.YUnit,
 		Series: []figure.Series{{Name: "bright field", X: p.Rocking.X, Y: p.Rocking.BF}, {Name: "dark field", X: p.Rocking.X, Y: p.Rocking.DF}}}))
 	if v := p.Visibility; v != nil {
 		fs = append(fs, csvFile("visibility.csv", func(w io.Writer) {
@@ -83,7 +82,7 @@ func (p *Plan) files() []atomicfile.File {
 		for _, i := range coarseIdx(len(v.ThicknessNm), 4) {
 			series = append(series, figure.Series{Name: fmt.Sprintf("t = %.0f nm", v.ThicknessNm[i]), X: v.SPerNm, Y: v.V[i]})
 		}
-		fs = append(fs, plotFile("visibility.png", figure.Plot{Title: "Defect visibility (dark-field Michelson contrast) — " + cond, XLabel: "s (1/nm)", YLabel: "visibility", Y: figure.YUnit, Series: series}))
+		fs = append(fs, plotFile("visibility.png", figure.Plot{Title: "Defect visibility (dark-field Michelson contrast)", XLabel: "s (1/nm)", YLabel: "visibility", Y: figure.YUnit, Series: series}))
 	}
 	if len(p.WeakBeam) > 0 {
 		fs = append(fs, csvFile("weakbeam.csv", func(w io.Writer) {
@@ -105,7 +104,7 @@ func (p *Plan) files() []atomicfile.File {
 		if !math.IsNaN(p.WeakBeam[0].ProjectedSepNm) {
 			series = append(series, figure.Series{Name: "peak separation", X: s, Y: ms}, figure.Series{Name: "partials' separation", X: s, Y: ps, Dashed: true})
 		}
-		fs = append(fs, plotFile("weakbeam.png", figure.Plot{Title: "Weak-beam image g(ng), n = 2…" + fmt.Sprint(p.WeakBeam[len(p.WeakBeam)-1].N) + " — " + cond, XLabel: "s (1/nm)", YLabel: "nm", Series: series}))
+		fs = append(fs, plotFile("weakbeam.png", figure.Plot{Title: "Weak-beam image at g(ng), n = 2…" + fmt.Sprint(p.WeakBeam[len(p.WeakBeam)-1].N), XLabel: "s (1/nm)", YLabel: "nm", Series: series}))
 	}
 	if t := p.GB; t != nil {
 		fs = append(fs, csvFile("gb.csv", func(w io.Writer) { t.writeCSV(w) }))

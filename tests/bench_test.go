@@ -49,8 +49,14 @@ func BenchmarkRenderScene(b *testing.B) {
 // one inclined mixed dislocation in copper (Zener ratio 3.2), the Stroh
 // field against the Hirth–Lothe isotropic one.
 func benchmarkElasticity(b *testing.B, elasticity string) {
+	benchmarkModel(b, elasticity, `"s_per_nm": 0.0`)
+}
+
+// benchmarkModel renders the scene of benchmarkElasticity with the
+// deviation and model given as diffraction fields.
+func benchmarkModel(b *testing.B, elasticity, diffraction string) {
 	sc, err := scene.Parse([]byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
-	  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], "s_per_nm": 0.0},
+	  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], ` + diffraction + `},
 	  "foil": {"thickness_nm": 150},
 	  "defects": [{"type": "dislocation", "b": "1/2[1 0 1]", "line": [1, 1, 1], "at_nm": [0, 0, 75], "elasticity": "` + elasticity + `"}],
 	  "image": {"width_nm": 200, "height_nm": 200, "pixels": [256, 256]}}`))
@@ -173,4 +179,17 @@ func startCPU() cpuClock { return cpuClock{cpuSeconds()} }
 // report adds the CPU seconds per operation (cpu-s/op).
 func (c cpuClock) report(b *testing.B) {
 	b.ReportMetric((cpuSeconds()-c.start)/float64(b.N), "cpu-s/op")
+}
+
+// The systematic row against two beams on the same scene (Stroh field):
+// 7 beams at the Bragg position, and the weak-beam condition g(3g) with
+// both models. The per-column cost ratio is the row's price.
+func BenchmarkRender256AnisotropicRow7(b *testing.B) {
+	benchmarkModel(b, "anisotropic", `"s_per_nm": 0.0, "model": "systematic-row", "beams": 7`)
+}
+func BenchmarkRender256WeakBeamTwoBeam(b *testing.B) {
+	benchmarkModel(b, "anisotropic", `"weak_beam": {"n": 3}, "model": "two-beam"`)
+}
+func BenchmarkRender256WeakBeamRow7(b *testing.B) {
+	benchmarkModel(b, "anisotropic", `"weak_beam": {"n": 3}, "beams": 7`)
 }
