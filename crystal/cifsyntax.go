@@ -88,9 +88,9 @@ type cifToken struct {
 	val  cifValue
 }
 
-// maxCIFBytes bounds what ParseCIF reads: far above any real structure file
+// MaxCIFBytes bounds what ParseCIF reads: far above any real structure file
 // (a large protein-free CIF is a few MB).
-const maxCIFBytes = 64 << 20
+const MaxCIFBytes = 64 << 20
 
 // tokenizeCIF splits CIF 1.1 text into tokens (IUCr, CIF version 1.1
 // syntax specification, paragraphs 2–20): whitespace-separated values,
@@ -98,14 +98,14 @@ const maxCIFBytes = 64 << 20
 // whitespace, semicolon text fields, # comments, data_/loop_/save_/global_/
 // stop_ keywords (case-insensitive) and tags beginning with an underscore.
 func tokenizeCIF(r io.Reader) ([]cifToken, error) {
-	sc := bufio.NewScanner(io.LimitReader(r, maxCIFBytes+1))
-	sc.Buffer(make([]byte, 0, 64*1024), maxCIFBytes+1)
+	sc := bufio.NewScanner(io.LimitReader(r, MaxCIFBytes+1))
+	sc.Buffer(make([]byte, 0, 64*1024), MaxCIFBytes+1)
 	var lines []string
 	size := 0
 	for sc.Scan() {
 		size += len(sc.Bytes()) + 1
-		if size > maxCIFBytes {
-			return nil, cifErr(0, "file larger than %d MB", maxCIFBytes>>20)
+		if size > MaxCIFBytes {
+			return nil, cifErr(0, "file larger than %d MB", MaxCIFBytes>>20)
 		}
 		lines = append(lines, strings.TrimSuffix(sc.Text(), "\r"))
 	}

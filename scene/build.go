@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -192,7 +193,7 @@ func (b *Builder) material(c *Crystal, dir string) (*material, error) {
 		if !filepath.IsAbs(cifPath) {
 			cifPath = filepath.Join(dir, cifPath)
 		}
-		if cif, err = os.ReadFile(cifPath); err != nil {
+		if cif, err = readCIF(cifPath); err != nil {
 			return nil, wrapErr("crystal.cif", err)
 		}
 		sum := sha256.Sum256(cif)
@@ -596,4 +597,22 @@ func defectErr(path string, err error) error {
 		return &FieldError{Path: path + "." + ie.Field, Msg: ie.Problem, Err: err}
 	}
 	return wrapErr(path, err)
+}
+
+// readCIF reads the CIF file at path, at most crystal.MaxCIFBytes of it
+// (a device such as /dev/zero, or a huge file, is refused, not read whole).
+func readCIF(path string) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, crystal.MaxCIFBytes+1))
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	if len(data) > crystal.MaxCIFBytes {
+		return nil, fmt.Errorf("%s: larger than %d MB", path, crystal.MaxCIFBytes>>20)
+	}
+	return data, nil
 }

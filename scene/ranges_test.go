@@ -97,3 +97,17 @@ func TestEmptySceneFileNamed(t *testing.T) {
 		t.Errorf("empty file: %v", err)
 	}
 }
+
+// TestCIFReadIsBounded: a CIF path naming an endless device is refused
+// after crystal.MaxCIFBytes, naming crystal.cif, not read until memory
+// runs out.
+func TestCIFReadIsBounded(t *testing.T) {
+	text := strings.Replace(base, `"material": "Cu"`, `"cif": "/dev/zero"`, 1)
+	sc, err := Parse([]byte(text))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Build(sc, "."); err == nil || !strings.HasPrefix(err.Error(), "crystal.cif: /dev/zero: larger than 64 MB") {
+		t.Errorf("cif /dev/zero: %v", err)
+	}
+}
