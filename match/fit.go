@@ -2,7 +2,6 @@ package match
 
 import (
 	"context"
-
 	"fmt"
 	"math"
 
@@ -10,6 +9,7 @@ import (
 	"gonum.org/v1/gonum/optimize"
 
 	"faultline/scene"
+	"faultline/sim"
 )
 
 // FitOptions control Fit.
@@ -37,38 +37,151 @@ type FitResult struct {
 	SPerNm      Estimate
 	AtNm        [3]Estimate
 	Score       float64
-	// Evaluations counts the simulations rendered.
-	Evaluations int
+	// Renders counts the simulations computed from the field, Replays
+	// those replayed from recorded field samples (sim.Samples) because
+	// only the thickness or s had changed.
+	Renders, Replays int
 	// ErrorMethod says how the errors were obtained.
 	ErrorMethod string
 }
 
-// The fitted parameters, in order: thickness (nm), s (1/nm) and the
-// defect's depth as a fraction of the thickness. The ranges searched, from
-// the starting scene: thickness within a factor 2 either way, s within
-// ±2/ξ_g (two fringes of the rocking curve) of the start, and the depth
-// anywhere in the foil. The depth of a fault that crosses the whole foil
-// is not fitted: moving its plane along the beam is a shift of its image,
-// which the registration takes up.
-type fitBounds struct {
-	lo, hi [3]float64
-	n      int // parameters fitted: 2 or 3
+// fitter holds what the evaluations of one fit share: the scene, a
+// Builder (crystal and Stroh solutions built once) and the field samples
+// of the last depth rendered, replayed while only t and s change.
+type fitter struct {
+	ctx     context.Context
+	base    *scene.Scene
+	dir     string
+	k       int
+	at      []float64
+	opt     FitOptions
+	builder scene.Builder
+	tMax    float64 // the largest thickness searched
+
+	// The recorded field samples: for micrograph recMic and depth recZ,
+	// through the turned field recField.
+	samples  *sim.Samples
+	recMic   *Micrograph
+	recZ     float64
+	recField sim.Displacement
+
+	renders, replays int
+	err              error
+}
+
+// score renders the scene with thickness t, excitation error s and the
+// defect at depth z on the micrograph's raster and compares.
+func (f *fitter) score(mic *Micrograph, t, s, z float64) (Cell, error) {
+	sc, err := cloneScene(f.base)
+	if err != nil {
+		return Cell{}, err
+	}
+	if err := scene.SetAll(sc,
+		scene.Edit{Path: "foil.thickness_nm", Value: t},
+		scene.Edit{Path: "diffraction.s_per_nm", Value: s},
+		scene.Edit{Path: fmt.Sprintf("defects[%d].at_nm", f.k), Value: []float64{f.at[0], f.at[1], z}}); err != nil {
+		return Cell{}, err
+	}
+	st, err := f.builder.Build(sc, f.dir)
+	if err != nil {
+		return Cell{}, err
+	}
+	v := View{W: mic.Raster.W, H: mic.Raster.H, NmPerPx: mic.Raster.NmPerPx, GAngleDeg: mic.GAngleDeg}
+	grid := sim.Grid{NX: v.W, NY: v.H, WidthNm: float64(v.W) * v.NmPerPx, HeightNm: float64(v.H) * v.NmPerPx}
+	p := sim.Turn(st.Problem, rotation(SceneGAngleDeg(st), v.GAngleDeg), grid)
+	var im *sim.Image
+	if f.samples != nil && f.recMic == mic && f.recZ == z && t <= f.samples.MaxThicknessNm() {
+		// The same defect geometry: only the conditions changed.
+		p.Field = f.recField
+		if !f.samples.Serves(p) {
+			return Cell{}, fmt.Errorf("fit: recorded field samples do not serve the problem (internal)")
+		}
+		if im, _, err = f.samples.Replay(f.ctx, p.Model, t, sim.Options{Workers: f.opt.Workers}); err != nil {
+			return Cell{}, err
+		}
+		f.replays++
+	} else {
+		rec := math.Min(f.tMax, 1.3*t)
+		var smp *sim.Samples
+		if im, smp, err = sim.Record(f.ctx, p, sim.RecordOptions{Options: sim.Options{Workers: f.opt.Workers}, MaxThicknessNm: rec}); err != nil {
+			return Cell{}, err
+		}
+		f.samples, f.recMic, f.recZ, f.recField = smp, mic, z, p.Field
+		f.renders++
+	}
+	if f.opt.BlurNm > 0 {
+		sim.Blur(im, f.opt.BlurNm)
+	}
+	plane := im.BF()
+	if mic.Kind == DarkField {
+		plane = im.DF()
+	}
+	return compare(mic, &Raster{W: v.W, H: v.H, Pix: plane, NmPerPx: v.NmPerPx}, Options{MaxShiftPx: max(v.W, v.H) / 4})
+}
+
+// bounded maps an unbounded variable u into [lo, hi] by
+// p = lo + (hi − lo)(1 + sin u)/2 (the bounding transform of James & Roos
+// 1975, MINUIT), and back.
+type bounded struct{ lo, hi float64 }
+
+func (b bounded) p(u float64) float64 { return b.lo + (b.hi-b.lo)*(1+math.Sin(u))/2 }
+func (b bounded) u(p float64) float64 {
+	x := 2*(p-b.lo)/(b.hi-b.lo) - 1
+	return math.Asin(math.Max(-1, math.Min(1, x)))
+}
+
+// minimize runs the Nelder–Mead simplex (gonum optimize) on the bounded
+// parameters from start and returns the best point and its score.
+func (f *fitter) minimize(bs []bounded, start []float64, size float64, evals int, score func(p []float64) float64) ([]float64, float64) {
+	toP := func(u []float64) []float64 {
+		p := make([]float64, len(u))
+		for i := range u {
+			p[i] = bs[i].p(u[i])
+		}
+		return p
+	}
+	u0 := make([]float64, len(start))
+	for i := range start {
+		u0[i] = bs[i].u(start[i])
+	}
+	obj := func(u []float64) float64 {
+		if f.err != nil || f.ctx.Err() != nil {
+			return math.Inf(1)
+		}
+		return -score(toP(u))
+	}
+	res, err := optimize.Minimize(optimize.Problem{Func: obj}, u0,
+		&optimize.Settings{FuncEvaluations: evals, Converger: &optimize.FunctionConverge{Absolute: 1e-5, Iterations: 15}},
+		&optimize.NelderMead{SimplexSize: size})
+	if err != nil && res == nil {
+		if f.err == nil {
+			f.err = err
+		}
+		return start, math.Inf(-1)
+	}
+	return toP(res.X), -res.F
 }
 
 // Fit adjusts the foil thickness, the excitation error s and the depth of
 // one defect of the scene (and, through the registration, its position in
 // the picture) to maximise the score against the micrograph.
 //
-// The search runs on the micrograph binned to at most 64 pixels a side,
-// from several starts (the scene's values, and thickness 15 % lower and
-// higher, each with s at the start and ±0.5/ξ_g from it), by the
-// Nelder–Mead simplex (Nelder & Mead 1965, Computer Journal 7, 308; gonum
-// optimize) on variables mapped into their bounds by
-// p = lo + (hi − lo)(1 + sin u)/2 (the bounding transform of James & Roos
-// 1975, MINUIT); the best is refined on the full micrograph. The
-// uncertainty of each value is the change that lowers the score by its own
-// standard error σ_r (scoreError): with H the Hessian of the score in the
-// parameters (central differences), δp_i = sqrt(2 σ_r (−H)⁻¹_ii).
+// The search is nested: for a depth z, the thickness and s are fitted by
+// the Nelder–Mead simplex (Nelder & Mead 1965, Computer Journal 7, 308;
+// gonum optimize), every evaluation after the first replaying the field
+// samples of the first (sim.Samples: only the conditions change); the
+// depth is fitted around that by a one-dimensional simplex. Parameters are
+// mapped into their bounds by p = lo + (hi − lo)(1 + sin u)/2 (James & Roos
+// 1975, MINUIT): thickness within a factor 2 of the start, s within
+// ±2/ξ_g, the depth inside the foil. The depth of a fault that crosses the
+// whole foil is not fitted: moving its plane along the beam is a shift of
+// its image, which the registration takes up. The search starts from nine
+// points (thickness ±15 %, s ±0.5/ξ_g) on the micrograph binned to at most
+// 64 pixels a side and is refined on the full micrograph.
+//
+// The uncertainty of each value is the change that lowers the score by its
+// own standard error σ_r (scoreError): with H the Hessian of the score in
+// the parameters (central differences), δp_i = sqrt(2 σ_r (−H)⁻¹_ii).
 func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt FitOptions) (*FitResult, error) {
 	k := opt.Defect
 	if k < 0 || k >= len(base.Defects) {
@@ -78,217 +191,156 @@ func Fit(ctx context.Context, base *scene.Scene, dir string, m *Micrograph, opt 
 	if len(at) != 3 {
 		return nil, fmt.Errorf("%w: defects[%d].at_nm: the fitted defect needs a position", ErrSeries, k)
 	}
-	// One builder for the whole fit: a change of thickness or s re-runs
-	// only the conditions stage, a change of depth the geometry.
-	var builder scene.Builder
-	st0, err := builder.Build(base, dir)
+	f := &fitter{ctx: ctx, base: base, dir: dir, k: k, at: at, opt: opt}
+	st0, err := f.builder.Build(base, dir)
 	if err != nil {
 		return nil, err
 	}
 	t0, s0 := base.Foil.ThicknessNm, st0.SPerNm
+	f.tMax = 2 * t0
 	ds := 2 / st0.XiGNm
-	b := fitBounds{
-		lo: [3]float64{t0 / 2, s0 - ds, 0.02},
-		hi: [3]float64{t0 * 2, s0 + ds, 0.98},
-		n:  3,
+	tb, sb := bounded{t0 / 2, f.tMax}, bounded{s0 - ds, s0 + ds}
+	fitDepth := !(base.Defects[k].Type == "fault" && len(base.Defects[k].BoundsNm) == 0)
+	say := func(format string, a ...any) {
+		if opt.Progress != nil {
+			opt.Progress(fmt.Sprintf(format, a...))
+		}
 	}
-	if d := base.Defects[k]; d.Type == "fault" && len(d.BoundsNm) == 0 {
-		b.n = 2
-	}
-	fr := &FitResult{}
-	eval := func(mic *Micrograph, p [3]float64) (float64, Cell, error) {
-		sc, err := cloneScene(base)
+	eval := func(mic *Micrograph, t, s, z float64) float64 {
+		if z >= t {
+			return -1 // the defect would leave the foil
+		}
+		c, err := f.score(mic, t, s, z)
 		if err != nil {
-			return 0, Cell{}, err
-		}
-		edits := []struct {
-			path string
-			v    any
-		}{
-			{"foil.thickness_nm", p[0]},
-			{"diffraction.s_per_nm", p[1]},
-			{fmt.Sprintf("defects[%d].at_nm", k), []float64{at[0], at[1], p[2] * p[0]}},
-		}
-		for _, e := range edits {
-			if err := scene.Set(sc, e.path, e.v); err != nil {
-				return 0, Cell{}, err
+			if f.err == nil {
+				f.err = err
 			}
+			return math.Inf(-1)
 		}
-		st, err := builder.Build(sc, dir)
-		if err != nil {
-			return 0, Cell{}, err
-		}
-		v := View{W: mic.Raster.W, H: mic.Raster.H, NmPerPx: mic.Raster.NmPerPx, GAngleDeg: mic.GAngleDeg}
-		r, err := Simulate(ctx, st, v, mic.Kind, opt.BlurNm, opt.Workers)
-		if err != nil {
-			return 0, Cell{}, err
-		}
-		fr.Evaluations++
-		c, err := compare(mic, r, Options{MaxShiftPx: max(mic.Raster.W, mic.Raster.H) / 4})
-		if err != nil {
-			return 0, Cell{}, err
-		}
-		return c.Score, c, nil
+		return c.Score
 	}
-	z0 := math.Max(b.lo[2], math.Min(b.hi[2], at[2]/t0))
-	toP := func(u []float64) [3]float64 {
-		p := [3]float64{0, 0, z0}
-		for i := range u {
-			p[i] = b.lo[i] + (b.hi[i]-b.lo[i])*(1+math.Sin(u[i]))/2
-		}
-		if b.n == 2 {
-			p[2] = at[2] / p[0] // the fault keeps its point
-		}
-		return p
+	// inner fits t and s at depth z from (t, s), returning the best.
+	inner := func(mic *Micrograph, t, s, z, size float64, evals int) (float64, float64, float64) {
+		p, sc := f.minimize([]bounded{tb, sb}, []float64{t, s}, size, evals, func(p []float64) float64 {
+			return eval(mic, p[0], p[1], z)
+		})
+		return p[0], p[1], sc
 	}
-	toU := func(p [3]float64) []float64 {
-		u := make([]float64, b.n)
-		for i := range u {
-			x := 2*(p[i]-b.lo[i])/(b.hi[i]-b.lo[i]) - 1
-			u[i] = math.Asin(math.Max(-1, math.Min(1, x)))
+	// search fits the depth around inner, from (t, s, z).
+	search := func(mic *Micrograph, t, s, z, size float64, innerEvals, outerEvals int) (float64, float64, float64, float64) {
+		bt, bs, bsc := inner(mic, t, s, z, size, innerEvals)
+		bz := z
+		if !fitDepth {
+			return bt, bs, bz, bsc
 		}
-		return u
-	}
-	var evalErr error
-	objective := func(mic *Micrograph) func(u []float64) float64 {
-		return func(u []float64) float64 {
-			if evalErr != nil || ctx.Err() != nil {
-				return math.Inf(1)
+		zb := bounded{0.02 * t0, 0.98 * tb.hi}
+		f.minimize([]bounded{zb}, []float64{z}, size, outerEvals, func(p []float64) float64 {
+			t, s, sc := inner(mic, bt, bs, p[0], size/2, innerEvals/2)
+			if sc > bsc {
+				bt, bs, bz, bsc = t, s, p[0], sc
 			}
-			s, _, err := eval(mic, toP(u))
-			if err != nil {
-				evalErr = err
-				return math.Inf(1)
-			}
-			return -s
-		}
-	}
-	minimize := func(mic *Micrograph, start [3]float64, size float64, evals int) ([3]float64, float64, error) {
-		res, err := optimize.Minimize(optimize.Problem{Func: objective(mic)}, toU(start),
-			&optimize.Settings{FuncEvaluations: evals, Converger: &optimize.FunctionConverge{Absolute: 1e-5, Iterations: 15}},
-			&optimize.NelderMead{SimplexSize: size})
-		if evalErr != nil {
-			return start, 0, evalErr
-		}
-		if err := ctx.Err(); err != nil {
-			return start, 0, err
-		}
-		if err != nil && res == nil {
-			return start, 0, err
-		}
-		return toP(res.X), -res.F, nil
+			return sc
+		})
+		return bt, bs, bz, bsc
 	}
 
-	// Coarse search from several starts.
 	coarse := m
-	if f := (max(m.Raster.W, m.Raster.H) + 63) / 64; f > 1 {
-		coarse = &Micrograph{Name: m.Name, Raster: bin(m.Raster, f), GAngleDeg: m.GAngleDeg, Kind: m.Kind}
+	if b := (max(m.Raster.W, m.Raster.H) + 63) / 64; b > 1 {
+		coarse = &Micrograph{Name: m.Name, Raster: bin(m.Raster, b), GAngleDeg: m.GAngleDeg, Kind: m.Kind}
 	}
-	var starts [][3]float64
+	z0 := math.Max(0.02*t0, math.Min(0.98*t0, at[2]))
+	// Starts at the scene's depth: t and s only, replaying one recording.
+	bt, bs, bsc := t0, s0, math.Inf(-1)
+	n := 0
 	for _, tf := range []float64{1, 0.85, 1.15} {
 		for _, sf := range []float64{0, -0.5, 0.5} {
-			starts = append(starts, [3]float64{t0 * tf, s0 + sf/st0.XiGNm, z0})
+			n++
+			say("fit: start %d of 9 (coarse, %d × %d px)", n, coarse.Raster.W, coarse.Raster.H)
+			t, s, sc := inner(coarse, t0*tf, s0+sf/st0.XiGNm, z0, 0.3, 100)
+			if sc > bsc {
+				bt, bs, bsc = t, s, sc
+			}
 		}
 	}
-	best, bestScore := starts[0], math.Inf(-1)
-	for i, st := range starts {
-		if opt.Progress != nil {
-			opt.Progress(fmt.Sprintf("fit: start %d of %d (coarse, %d × %d px)", i+1, len(starts), coarse.Raster.W, coarse.Raster.H))
-		}
-		p, s, err := minimize(coarse, st, 0.3, 120)
-		if err != nil {
-			return nil, err
-		}
-		if s > bestScore {
-			best, bestScore = p, s
-		}
+	bz := z0
+	if fitDepth {
+		say("fit: depth (coarse)")
+		bt, bs, bz, _ = search(coarse, bt, bs, z0, 0.3, 60, 14)
 	}
-	// Refinement at full resolution.
-	if opt.Progress != nil {
-		opt.Progress("fit: refining on the full micrograph")
+	say("fit: refining on the full micrograph")
+	bt, bs, bz, _ = search(m, bt, bs, bz, 0.05, 40, 6)
+	if f.err != nil {
+		return nil, f.err
 	}
-	p, score, err := minimize(m, best, 0.05, 60)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	best, err := f.score(m, bt, bs, bz)
 	if err != nil {
 		return nil, err
 	}
-	_, cell, err := eval(m, p)
-	if err != nil {
-		return nil, err
-	}
-	fr.Score = cell.Score
-	_ = score
 
 	// Uncertainty from the curvature of the score.
-	if opt.Progress != nil {
-		opt.Progress("fit: uncertainties from the curvature of the score")
+	say("fit: uncertainties from the curvature of the score")
+	p := []float64{bt, bs, bz}
+	h := []float64{0.02 * bt, 0.1 / st0.XiGNm, 0.02 * bt}
+	np := 2
+	if fitDepth {
+		np = 3
 	}
-	h := [3]float64{0.02 * p[0], 0.1 / st0.XiGNm, 0.02}
-	f := func(q [3]float64) (float64, error) {
-		if b.n == 2 {
-			q[2] = at[2] / q[0]
-		}
-		s, _, err := eval(m, q)
-		return s, err
-	}
-	H := mat.NewSymDense(b.n, nil)
-	f0 := cell.Score
-	for i := 0; i < b.n; i++ {
-		for j := i; j < b.n; j++ {
+	at3 := func(q []float64) float64 { return eval(m, q[0], q[1], q[2]) }
+	H := mat.NewSymDense(np, nil)
+	f0 := best.Score
+	for i := 0; i < np; i++ {
+		for j := i; j < np; j++ {
 			var v float64
 			if i == j {
-				q1, q2 := p, p
+				q1 := append([]float64(nil), p...)
+				q2 := append([]float64(nil), p...)
 				q1[i] += h[i]
 				q2[i] -= h[i]
-				a, err := f(q1)
-				if err != nil {
-					return nil, err
-				}
-				c, err := f(q2)
-				if err != nil {
-					return nil, err
-				}
-				v = (a - 2*f0 + c) / (h[i] * h[i])
+				v = (at3(q1) - 2*f0 + at3(q2)) / (h[i] * h[i])
 			} else {
 				var s [4]float64
 				for n, sg := range [4][2]float64{{1, 1}, {1, -1}, {-1, 1}, {-1, -1}} {
-					q := p
+					q := append([]float64(nil), p...)
 					q[i] += sg[0] * h[i]
 					q[j] += sg[1] * h[j]
-					if s[n], err = f(q); err != nil {
-						return nil, err
-					}
+					s[n] = at3(q)
 				}
 				v = (s[0] - s[1] - s[2] + s[3]) / (4 * h[i] * h[j])
 			}
 			H.SetSym(i, j, -v)
 		}
 	}
-	sigma := cell.Error
-	var errs [3]float64
+	if f.err != nil {
+		return nil, f.err
+	}
+	fr := &FitResult{Score: best.Score, Renders: f.renders, Replays: f.replays}
+	errs := make([]float64, 3)
 	var chol mat.Cholesky
 	if chol.Factorize(H) {
 		var inv mat.SymDense
 		if err := chol.InverseTo(&inv); err == nil {
-			for i := 0; i < b.n; i++ {
-				errs[i] = math.Sqrt(2 * sigma * inv.At(i, i))
+			for i := 0; i < np; i++ {
+				errs[i] = math.Sqrt(2 * best.Error * inv.At(i, i))
 			}
 			fr.ErrorMethod = "curvature of the score"
 		}
 	}
 	if fr.ErrorMethod == "" {
-		// The maximum is flat or not a maximum along some direction:
-		// report the step used, and say so.
+		// The maximum is flat or not a maximum along some direction.
 		for i := range errs {
 			errs[i] = math.Inf(1)
 		}
 		fr.ErrorMethod = "undetermined: the score is flat along some direction at its maximum"
 	}
-	dx, dy := SpecimenOffset(cell.Shift.DX, cell.Shift.DY, st0.GAngleDeg, View{NmPerPx: m.Raster.NmPerPx, GAngleDeg: m.GAngleDeg})
+	dx, dy := SpecimenOffset(best.Shift.DX, best.Shift.DY, st0.GAngleDeg, View{NmPerPx: m.Raster.NmPerPx, GAngleDeg: m.GAngleDeg})
 	half := m.Raster.NmPerPx / 2
-	fr.ThicknessNm = Estimate{p[0], errs[0]}
-	fr.SPerNm = Estimate{p[1], errs[1]}
-	depth := Estimate{p[2] * p[0], math.Hypot(errs[2]*p[0], p[2]*errs[0])}
-	if b.n == 2 {
+	fr.ThicknessNm = Estimate{bt, errs[0]}
+	fr.SPerNm = Estimate{bs, errs[1]}
+	depth := Estimate{bz, errs[2]}
+	if !fitDepth {
 		depth = Estimate{at[2], 0} // not fitted
 	}
 	fr.AtNm = [3]Estimate{{at[0] + dx, half}, {at[1] + dy, half}, depth}

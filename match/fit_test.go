@@ -36,8 +36,8 @@ func TestFitRecoversThicknessAndS(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	t.Logf("t = %.2f ± %.2f nm, s = %.4f ± %.4f /nm, score %.3f, %d renders, errors: %s",
-		fr.ThicknessNm.Value, fr.ThicknessNm.Error, fr.SPerNm.Value, fr.SPerNm.Error, fr.Score, fr.Evaluations, fr.ErrorMethod)
+	t.Logf("t = %.2f ± %.2f nm, s = %.4f ± %.4f /nm, score %.3f, %d renders, %d replays, errors: %s",
+		fr.ThicknessNm.Value, fr.ThicknessNm.Error, fr.SPerNm.Value, fr.SPerNm.Error, fr.Score, fr.Renders, fr.Replays, fr.ErrorMethod)
 	if math.Abs(fr.ThicknessNm.Value-100) > 3 {
 		t.Errorf("thickness %.2f nm, want 100 within 3 %%", fr.ThicknessNm.Value)
 	}
@@ -48,3 +48,4 @@ func TestFitRecoversThicknessAndS(t *testing.T) {
 		t.Errorf("thickness error %v: want a finite positive uncertainty", fr.ThicknessNm.Error)
 	}
 }
+

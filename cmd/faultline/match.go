@@ -237,12 +237,12 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 			"s_per_nm": round4(fr.SPerNm.Value), "s_per_nm_error": finitePtr(round4(fr.SPerNm.Error)),
 			"at_nm":       []float64{round4(fr.AtNm[0].Value), round4(fr.AtNm[1].Value), round4(fr.AtNm[2].Value)},
 			"at_nm_error": []*float64{finitePtr(round4(fr.AtNm[0].Error)), finitePtr(round4(fr.AtNm[1].Error)), finitePtr(round4(fr.AtNm[2].Error))},
-			"score":       round4(fr.Score), "renders": fr.Evaluations, "error_method": fr.ErrorMethod,
+			"score":       round4(fr.Score), "renders": fr.Renders, "replays": fr.Replays, "error_method": fr.ErrorMethod,
 		})
 	}
 	fmt.Fprintf(stdout, "thickness_nm  %.2f ± %.2f\n", fr.ThicknessNm.Value, fr.ThicknessNm.Error)
 	fmt.Fprintf(stdout, "s_per_nm      %.4f ± %.4f\n", fr.SPerNm.Value, fr.SPerNm.Error)
 	fmt.Fprintf(stdout, "at_nm         [%.1f ± %.1f, %.1f ± %.1f, %.1f ± %.1f]\n", fr.AtNm[0].Value, fr.AtNm[0].Error, fr.AtNm[1].Value, fr.AtNm[1].Error, fr.AtNm[2].Value, fr.AtNm[2].Error)
-	fmt.Fprintf(stdout, "score         %.4f (%d renders; errors from the %s)\n", fr.Score, fr.Evaluations, fr.ErrorMethod)
+	fmt.Fprintf(stdout, "score         %.4f (%d renders, %d replays of field samples; errors from the %s)\n", fr.Score, fr.Renders, fr.Replays, fr.ErrorMethod)
 	return nil
 }
