@@ -48,4 +48,3 @@ func TestFitRecoversThicknessAndS(t *testing.T) {
 		t.Errorf("thickness error %v: want a finite positive uncertainty", fr.ThicknessNm.Error)
 	}
 }
-
