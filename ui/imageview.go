@@ -42,17 +42,20 @@ type imageView struct {
 	Extra  *imagePanel
 	grid   *fyne.Container
 
-	Grey    *widget.Select
-	Invert  *widget.Check
-	Tool    *widget.RadioGroup
-	Readout *widget.Label
+	Grey   *widget.Select
+	Invert *widget.Check
+	// Outlines draws the defects over the images (off by default).
+	Outlines *widget.Check
+	Tool     *widget.RadioGroup
+	Readout  *widget.Label
 
-	mapping figure.Mapping
-	gLabel  string
-	line    profileLine
-	res     *Result
-	stale   bool
-	onLine  []func(final bool)
+	mapping  figure.Mapping
+	outlines []scene.Outline // of the newest setup that built
+	gLabel   string
+	line     profileLine
+	res      *Result
+	stale    bool
+	onLine   []func(final bool)
 	// autoLine: the line is the default one across the middle, which
 	// follows the field until the user draws or clears a line.
 	autoLine bool
@@ -85,6 +88,7 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 		v.mapping.Invert = on
 		v.redraw()
 	})
+	v.Outlines = widget.NewCheck("Defects", func(bool) { v.refreshAll() })
 	v.Tool = widget.NewRadioGroup([]string{toolPan, toolLine}, nil)
 	v.Tool.Horizontal = true
 	v.Tool.Required = true
@@ -98,7 +102,7 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 	})
 
 	bar := container.NewBorder(nil, nil,
-		container.NewHBox(widget.NewLabel("Grey"), container.NewGridWrap(fyne.NewSize(205, v.Grey.MinSize().Height), v.Grey), v.Invert, widget.NewSeparator()),
+		container.NewHBox(widget.NewLabel("Grey"), container.NewGridWrap(fyne.NewSize(205, v.Grey.MinSize().Height), v.Grey), v.Invert, v.Outlines, widget.NewSeparator()),
 		container.NewHBox(widget.NewSeparator(), zout, fit, zin),
 		container.NewHBox(v.Tool, clear),
 	)
@@ -113,6 +117,7 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 			v.updateTags()
 		}
 		if st != nil {
+			v.outlines, _ = st.Outlines()
 			v.gLabel = "g = " + export.Indices(st.Scene.Diffraction.G)
 			w := st.Scene.Image.WidthNm
 			if v.autoLine {

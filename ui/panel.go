@@ -337,6 +337,13 @@ func (r *panelRenderer) draw(w, h int) image.Image {
 			}
 		}
 	}
+	if v := r.p.view; v.Outlines != nil && v.Outlines.Checked && len(v.outlines) > 0 {
+		at := func(x, y float64) (float64, float64) {
+			return (float64(size.Width)/2 + (x-vp.cxNm)/vp.nmPerDp) / sx,
+				(float64(size.Height)/2 + (y-vp.cyNm)/vp.nmPerDp) / sy
+		}
+		drawOutlines(img, v.outlines, at, 1.6/sx)
+	}
 	return img
 }
 
