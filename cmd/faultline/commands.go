@@ -226,7 +226,7 @@ func checkOutputDir(dir string) error {
 	return nil
 }
 
-func cmdProfile(ctx context.Context, args []string, stdout io.Writer) error {
+func cmdProfile(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("profile")
 	y := fs.Float64("y-nm", 0, "y of the row, nm (0: the centre)")
 	from := fs.String("from", "", "start of a line, X,Y nm")
@@ -288,11 +288,13 @@ func cmdProfile(ctx context.Context, args []string, stdout io.Writer) error {
 		return usageError{"--y-nm: " + err.Error()}
 	}
 	var im *sim.Image
+	p := newProgress(stderr, "profile")
 	if j0 == 0 && j1 == g.NY {
-		im, err = export.Render(ctx, st, sim.Options{})
+		im, err = export.Render(ctx, st, sim.Options{Progress: p.update})
 	} else {
-		im, err = sim.RenderRows(ctx, st.Problem, j0, j1, sim.Options{})
+		im, err = sim.RenderRows(ctx, st.Problem, j0, j1, sim.Options{Progress: p.update})
 	}
+	p.finish()
 	if err != nil {
 		return err
 	}

@@ -119,7 +119,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int
 	case "render":
 		err = cmdRender(ctx, args[1:], stdout, stderr)
 	case "profile":
-		err = cmdProfile(ctx, args[1:], stdout)
+		err = cmdProfile(ctx, args[1:], stdout, stderr)
 	case "inspect":
 		err = cmdInspect(args[1:], stdout)
 	case "reflections":
