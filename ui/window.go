@@ -247,7 +247,8 @@ func (ws *Workspace) mainMenu() *fyne.MainMenu {
 	view := fyne.NewMenu("View", ws.item("fit"), ws.item("zoomin"), ws.item("zoomout"),
 		fyne.NewMenuItemSeparator(), ws.item("invert"), ws.item("linetool"))
 	defects := fyne.NewMenu("Defects", ws.item("adddefect"))
-	help := fyne.NewMenu("Help", fyne.NewMenuItem("Keyboard shortcuts", ws.showShortcuts))
+	help := fyne.NewMenu("Help", fyne.NewMenuItem("Keyboard shortcuts", ws.showShortcuts),
+		fyne.NewMenuItem("About the models", ws.showAboutModels))
 	return fyne.NewMainMenu(file, edit, view, defects, help)
 }
 
