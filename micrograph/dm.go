@@ -135,7 +135,7 @@ func decodeDM(r io.ReaderAt, size int64) (*Image, error) {
 func readDMPixels(d *dmReader, off, size int64, typ uint64, m *Image) error {
 	n := int64(m.Width) * int64(m.Height)
 	m.Pix = make([]float32, n)
-	const block = 1 << 16
+	block := min(n, 1<<16)
 	buf := make([]byte, block*size)
 	for k := int64(0); k < n; k += block {
 		c := min(block, n-k)
