@@ -15,8 +15,10 @@ GUI_PKGS  := gcc pkg-config libgl1-mesa-dev libxcursor-dev libxrandr-dev libxine
 # references the tests compare with (gemmi's scattering factors, Pillow,
 # numpy, ImageMagick for inspecting captures), and Slurm with munge for the
 # one-node cluster the sweep test starts (tests/slurmcluster_test.go; the
-# daemons run as root, as make test does in CI).
-TEST_PKGS := xvfb xauth python3-gemmi python3-pil python3-numpy imagemagick slurm-wlm munge
+# daemons run as root, as make test does in CI); tifffile, mrcfile and
+# hyperspy read and write the micrograph and image files of the tests.
+TEST_PKGS := xvfb xauth python3-gemmi python3-pil python3-numpy imagemagick slurm-wlm munge \
+             python3-tifffile python3-mrcfile python3-hyperspy
 
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
