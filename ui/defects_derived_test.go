@@ -1,10 +1,13 @@
 package ui
 
 import (
+	"math"
+	"path/filepath"
 	"strings"
 	"testing"
 	"time"
 
+	"faultline/figure"
 	"faultline/scene"
 )
 
@@ -35,5 +38,21 @@ func TestOpenDemoMicrograph(t *testing.T) {
 	m := ws.micro
 	if m == nil || m.NmPerPx != 1.25 || m.GAngleDeg != 30 || m.img.Width != 240 || m.img.Height != 240 {
 		t.Fatalf("demo micrograph %+v", m)
+	}
+}
+
+// A micrograph whose file records its pixel size opens at that size, and
+// the panel says where the value came from.
+func TestOpenMicrographPixelSizeFromFile(t *testing.T) {
+	ws, _ := newTestWorkspace(t, (&fakeRender{}).render)
+	path := filepath.Join(t.TempDir(), "cal.tiff")
+	if err := figure.WriteCalibratedTIFF(path, make([]float64, 12), 4, 3, figure.TIFFMeta{NmPerPx: 0.52}); err != nil {
+		t.Fatal(err)
+	}
+	if err := ws.OpenMicrograph(path); err != nil {
+		t.Fatal(err)
+	}
+	if m := ws.micro; m == nil || math.Abs(m.NmPerPx-0.52) > 1e-9 || m.pixelSizeNote() != "0.52 nm/px, from the file" {
+		t.Fatalf("micrograph %+v", m)
 	}
 }
