@@ -115,7 +115,7 @@ func TestZoneReflectionChoice(t *testing.T) {
 func TestUseCIF(t *testing.T) {
 	src, err := os.ReadFile(filepath.Join("..", "crystal", "testdata", "nacl.cif"))
 	if err != nil {
-		t.Skipf("no test CIF: %v", err)
+		t.Fatalf("test CIF crystal/testdata/nacl.cif: %v", err)
 	}
 	dir := t.TempDir()
 	cif := filepath.Join(dir, "nacl.cif")
