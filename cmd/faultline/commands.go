@@ -400,18 +400,27 @@ func parseArg(fs *flag.FlagSet, args []string, stdout io.Writer, what string) (s
 	return pos[0], nil
 }
 
+// loadScene reads a scene file and applies the --set overrides in order.
+func loadScene(path string, set []scene.Edit) (*scene.Scene, error) {
+	sc, err := scene.Load(path)
+	if err != nil {
+		return nil, err
+	}
+	for _, e := range set {
+		if err := scene.SetJSON(sc, e.Path, string(e.Value.(json.RawMessage))); err != nil {
+			return nil, fmt.Errorf("--set %w", err)
+		}
+	}
+	return sc, nil
+}
+
 // load reads a scene file, applies the overrides in order and builds it;
 // without defects, only the crystal and the conditions are built (what
 // reflections needs).
 func load(path string, withDefects bool, set ...scene.Edit) (*scene.Setup, []byte, error) {
-	sc, err := scene.Load(path)
+	sc, err := loadScene(path, set)
 	if err != nil {
 		return nil, nil, err
-	}
-	for _, e := range set {
-		if err := scene.SetJSON(sc, e.Path, string(e.Value.(json.RawMessage))); err != nil {
-			return nil, nil, fmt.Errorf("--set %w", err)
-		}
 	}
 	data, err := scene.Marshal(sc)
 	if err != nil {

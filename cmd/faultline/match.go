@@ -13,7 +13,6 @@ import (
 	"faultline/figure"
 	"faultline/match"
 	"faultline/micrograph"
-	"faultline/scene"
 )
 
 // sheetRows is the number of best candidates on the identification's
@@ -202,14 +201,9 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	if math.IsNaN(*angle) || math.Abs(*angle) > 360 {
 		return usageError{fmt.Sprintf("--g-angle-deg: %g: want an angle from −360 to 360 degrees", *angle)}
 	}
-	sc, err := scene.Load(path)
+	sc, err := loadScene(path, *set)
 	if err != nil {
 		return err
-	}
-	for _, e := range *set {
-		if err := scene.SetJSON(sc, e.Path, string(e.Value.(json.RawMessage))); err != nil {
-			return fmt.Errorf("--set %w", err)
-		}
 	}
 	img, err := micrograph.Read(*mic)
 	if err != nil {

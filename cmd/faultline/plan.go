@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -10,7 +9,6 @@ import (
 	"strings"
 
 	"faultline/plan"
-	"faultline/scene"
 )
 
 const planUsage = `usage: faultline plan SCENE -o DIR [--thickness-nm A:B:STEP] [--s-per-nm A:B:STEP] [--candidates 1/2<110>,...]
@@ -76,14 +74,9 @@ func cmdPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if err := checkOutputDir(*out); err != nil {
 		return err
 	}
-	sc, err := scene.Load(path)
+	sc, err := loadScene(path, *set)
 	if err != nil {
 		return err
-	}
-	for _, e := range *set {
-		if err := scene.SetJSON(sc, e.Path, string(e.Value.(json.RawMessage))); err != nil {
-			return fmt.Errorf("--set %w", err)
-		}
 	}
 	p, err := plan.Make(ctx, sc, filepath.Dir(path), opt)
 	if err != nil {
