@@ -105,7 +105,11 @@ func decodeDM(r io.ReaderAt, size int64) (*Image, error) {
 		return nil, err
 	}
 	id := best.child("ImageData")
-	dt := int(id.child("DataType").num)
+	dtTag := id.child("DataType")
+	if dtTag == nil {
+		return nil, errorf("%s: the image has no DataType tag", d.format)
+	}
+	dt := int(dtTag.num)
 	if dmComplex[dt] {
 		return nil, errorf("%s: complex image data (data type %d) is not supported; want a real image", d.format, dt)
 	}
