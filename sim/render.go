@@ -144,7 +144,7 @@ func RenderRows(ctx context.Context, p *Problem, j0, j1 int, opt Options) (*Imag
 	if err != nil {
 		return nil, err
 	}
-	if err := im.checkFinite(); err != nil {
+	if err := im.checkFinite(p.Field != nil); err != nil {
 		return nil, err
 	}
 	return im, nil
@@ -170,8 +170,9 @@ func (im *Image) set(i, j int, out []float64) {
 }
 
 // checkFinite reports the first pixel, in raster order, with a
-// non-finite intensity.
-func (im *Image) checkFinite() error {
+// non-finite intensity; withField says whether the problem had a
+// displacement field to blame.
+func (im *Image) checkFinite(withField bool) error {
 	bad := -1
 	for k := range im.Intensity {
 		for n, v := range im.Intensity[k] {
@@ -188,7 +189,11 @@ func (im *Image) checkFinite() error {
 	}
 	g := im.Grid
 	i, j := bad%g.NX, bad/g.NX
-	return fmt.Errorf("%w: column (%g, %g) nm gave a non-finite intensity; a defect's field is not finite there", ErrNonFinite, g.X(i), g.Y(j))
+	why := "a defect's field is not finite there"
+	if !withField {
+		why = "the perfect crystal's amplitudes overflowed; check the excitation error, the extinction distance and the thickness"
+	}
+	return fmt.Errorf("%w: column (%g, %g) nm gave a non-finite intensity; %s", ErrNonFinite, g.X(i), g.Y(j), why)
 }
 
 // rowPool runs the rows j0 ≤ j < j1 over opt.Workers goroutines (default

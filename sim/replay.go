@@ -172,7 +172,7 @@ func Record(ctx context.Context, p *Problem, opt RecordOptions) (*Image, *Sample
 		im, err := Render(ctx, p, opt.Options)
 		return im, nil, err
 	}
-	if err := im.checkFinite(); err != nil {
+	if err := im.checkFinite(p.Field != nil); err != nil {
 		return nil, nil, err
 	}
 	s.bytes = used.Load()
@@ -252,7 +252,7 @@ func (s *Samples) Replay(ctx context.Context, model Model, thicknessNm float64, 
 	if err != nil {
 		return nil, 0, err
 	}
-	if err := im.checkFinite(); err != nil {
+	if err := im.checkFinite(s.p.Field != nil); err != nil {
 		return nil, 0, err
 	}
 	return im, int(fresh.Load()), nil
