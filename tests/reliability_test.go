@@ -134,6 +134,13 @@ func TestKilledRender(t *testing.T) {
 				if len(temps) > 0 {
 					t.Errorf("SIGINT at %.0f%%: temporaries left: %v", 100*frac, temps)
 				}
+				if code == -1 && frac < 0.5 {
+					// The signal came before the program had started
+					// (the Go runtime's start-up, before main installs
+					// its handler), and it died of it: the directory
+					// check above is what matters then.
+					continue
+				}
 				if code == 130 && !strings.HasSuffix(stderr.String(), "error: interrupted\n") || code != 130 && code != 0 {
 					t.Errorf("SIGINT at %.0f%%: exit %d, stderr %q", 100*frac, code, stderr.String())
 				}
