@@ -6,6 +6,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"sync"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
@@ -165,12 +166,34 @@ func setError(l *widget.Label, msg string) {
 	l.Show()
 }
 
+// fieldNames maps an error label to the name of the form row it sits in
+// ("ξg override"), so that a message shown away from its field names the
+// field as the window shows it.
+var fieldNames sync.Map // *widget.Label -> string
+
+// describe names the field of a scene path as the window shows it, with
+// the path as the file writes it: "ξg override (diffraction.extinction_nm)";
+// just the path when no row of the window holds it.
+func (b *errorBoard) describe(path string) string {
+	if l, ok := b.labels[b.target(path)]; ok {
+		if name, ok := fieldNames.Load(l); ok {
+			return name.(string) + " (" + path + ")"
+		}
+	}
+	return path
+}
+
 // row is one line of a form: a label and what it labels.
 type row [2]fyne.CanvasObject
 
 // formRow is one labelled field: the label at the left, the field with
 // its error labels under it at the right.
 func formRow(label string, field fyne.CanvasObject, errs ...fyne.CanvasObject) row {
+	for _, e := range errs {
+		if el, ok := e.(*widget.Label); ok {
+			fieldNames.Store(el, label)
+		}
+	}
 	l := widget.NewLabel(label)
 	if len(errs) == 0 {
 		return row{l, field}

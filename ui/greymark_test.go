@@ -4,6 +4,7 @@ import (
 	"strings"
 	"testing"
 
+	"faultline/scene"
 	"faultline/sim"
 )
 
@@ -35,5 +36,17 @@ func TestPanelsMarkTheirGreyRange(t *testing.T) {
 	v.Grey.SetSelected(greyChoices[2].name) // fixed
 	if v.BF.grey != "" || v.DF.grey != "" || v.DF.warn {
 		t.Errorf("fixed mapping: marks %q, %q", v.BF.grey, v.DF.grey)
+	}
+}
+
+// A refused value is named in the status line by the label the window
+// shows and by the scene file's path.
+func TestStatusNamesTheField(t *testing.T) {
+	ws, _ := newTestWorkspace(t, (&fakeRender{}).render)
+	if err := ws.ctrl.Set(scene.Edit{Path: "diffraction.extinction_nm", Value: -5.0}); err == nil {
+		t.Fatal("negative ξg accepted")
+	}
+	if got := ws.status.Message.Text; !strings.Contains(got, "ξg override (diffraction.extinction_nm): ") {
+		t.Errorf("status %q does not name the field as the window does", got)
 	}
 }

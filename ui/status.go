@@ -48,7 +48,11 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 			msg := err.Error()
 			var fe *scene.FieldError
 			if errors.As(err, &fe) && fe.Path != "" {
-				msg = fe.Path + ": " + fe.Msg
+				name := fe.Path
+				if ws.board != nil {
+					name = ws.board.describe(fe.Path)
+				}
+				msg = name + ": " + fe.Msg
 			}
 			s.Message.Importance = widget.DangerImportance
 			s.Message.SetText("Not rendered: " + msg)

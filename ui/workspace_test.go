@@ -119,7 +119,7 @@ func TestInvalidFieldShowsErrorAndDoesNotRender(t *testing.T) {
 	if k := fr.started(n); k != 0 {
 		t.Errorf("%d renders started for invalid input, want 0", k)
 	}
-	if !strings.HasPrefix(ws.status.Message.Text, "Not rendered: foil.thickness_nm") {
+	if !strings.HasPrefix(ws.status.Message.Text, "Not rendered: Thickness t (foil.thickness_nm): ") {
 		t.Errorf("status line %q, want it to name the field", ws.status.Message.Text)
 	}
 	if ws.view.BF.tag == "" {
