@@ -101,3 +101,26 @@ func TestPaperVector(t *testing.T) {
 		t.Error("5000 dpi accepted")
 	}
 }
+
+// A plot drawn as PDF and SVG by EncodeVector has the asked size in
+// points and its labels as text.
+func TestPlotEncodeVector(t *testing.T) {
+	pl := Plot{Title: "Rocking curve", XLabel: "s (1/nm)", YLabel: "intensity", Y: YUnit,
+		Series: []Series{{Name: "BF", X: []float64{0, 1, 2}, Y: []float64{0.2, 0.5, 0.3}}}}
+	var pdf, svg bytes.Buffer
+	if err := pl.EncodeVector(&pdf, PaperPDF, 432, 288); err != nil {
+		t.Fatal(err)
+	}
+	if err := pl.EncodeVector(&svg, PaperSVG, 432, 288); err != nil {
+		t.Fatal(err)
+	}
+	if m := regexp.MustCompile(`/MediaBox \[0 0 ([0-9.]+) ([0-9.]+)\]`).FindSubmatch(pdf.Bytes()); m == nil || string(m[1]) != "432.00" && string(m[1]) != "432" {
+		t.Errorf("PDF page box %q, want 432 pt wide", m)
+	}
+	if !strings.Contains(svg.String(), "Rocking curve") || !strings.Contains(svg.String(), `width="432pt"`) {
+		t.Error("SVG lacks its title or its width")
+	}
+	if err := pl.EncodeVector(&svg, "png", 432, 288); err == nil {
+		t.Error("format png accepted by EncodeVector")
+	}
+}

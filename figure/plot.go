@@ -120,8 +120,18 @@ func (p Plot) Image(w, h int, dpi float64) (*image.RGBA, error) {
 	if w <= 0 || h <= 0 || !(dpi > 0) {
 		return nil, fmt.Errorf("figure: plot of %d×%d px at %g dpi: sizes must be positive", w, h, dpi)
 	}
+	pts := func(px int) vg.Length { return vg.Length(float64(px) * 72 / dpi) }
+	c := vgimg.NewWith(vgimg.UseWH(pts(w), pts(h)), vgimg.UseDPI(int(math.Round(dpi))))
+	if err := p.drawOn(c); err != nil {
+		return nil, err
+	}
+	return c.Image().(*image.RGBA), nil
+}
+
+// drawOn draws the plot on a canvas of any of gonum/plot's back ends.
+func (p Plot) drawOn(c vg.CanvasSizer) error {
 	if len(p.Series) == 0 {
-		return nil, errors.New("figure: plot has no series")
+		return errors.New("figure: plot has no series")
 	}
 	pl := plot.New()
 	pl.TextHandler = text.Plain{Fonts: plotFonts()}
@@ -139,7 +149,7 @@ func (p Plot) Image(w, h int, dpi float64) (*image.RGBA, error) {
 	leg.Top, leg.Left = true, true
 	for k, s := range p.Series {
 		if len(s.X) != len(s.Y) {
-			return nil, fmt.Errorf("figure: series %q has %d x and %d y values", s.Name, len(s.X), len(s.Y))
+			return fmt.Errorf("figure: series %q has %d x and %d y values", s.Name, len(s.X), len(s.Y))
 		}
 		col := s.Colour
 		if col == nil {
@@ -149,7 +159,7 @@ func (p Plot) Image(w, h int, dpi float64) (*image.RGBA, error) {
 		for _, seg := range segments(s.X, s.Y) {
 			l, err := plotter.NewLine(seg)
 			if err != nil {
-				return nil, fmt.Errorf("figure: series %q: %w", s.Name, err)
+				return fmt.Errorf("figure: series %q: %w", s.Name, err)
 			}
 			l.Color, l.Width = col, vg.Points(1.5)
 			if s.Dashed {
@@ -166,8 +176,6 @@ func (p Plot) Image(w, h int, dpi float64) (*image.RGBA, error) {
 	}
 	pl.Y.Min, pl.Y.Max = p.YRange()
 
-	pts := func(px int) vg.Length { return vg.Length(float64(px) * 72 / dpi) }
-	c := vgimg.NewWith(vgimg.UseWH(pts(w), pts(h)), vgimg.UseDPI(int(math.Round(dpi))))
 	dc := draw.New(c)
 	dc.SetColor(color.White)
 	dc.Fill(dc.Rectangle.Path())
@@ -181,7 +189,7 @@ func (p Plot) Image(w, h int, dpi float64) (*image.RGBA, error) {
 	if legW > 0 {
 		leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-legW+pad, 0, 0, -pad))
 	}
-	return c.Image().(*image.RGBA), nil
+	return nil
 }
 
 // segments splits (x, y) at NaN or infinite values into runs of at least

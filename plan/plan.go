@@ -76,6 +76,9 @@ type Plan struct {
 	Visibility *Visibility
 	WeakBeam   []WeakBeamPoint
 	GB         *GBTable
+	// PlotFormat, "pdf" or "svg", also writes every plot in that format
+	// beside its PNG (figure.Plot.EncodeVector); "" writes PNGs only.
+	PlotFormat string
 	Reuse      Reuse
 	// Suggestions are conditions to try, each with its reason.
 	Suggestions []Suggestion

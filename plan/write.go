@@ -35,7 +35,7 @@ func csvFile(name string, write func(w io.Writer)) atomicfile.File {
 	}}
 }
 
-func plotFile(name string, pl figure.Plot) atomicfile.File {
+func pngPlotFile(name string, pl figure.Plot) atomicfile.File {
 	return atomicfile.File{Name: name, Encode: func(w io.Writer) error {
 		img, err := pl.Image(plotW, plotH, plotDPI)
 		if err != nil {
@@ -53,7 +53,18 @@ func num(x float64) string {
 }
 
 func (p *Plan) files() []atomicfile.File {
-	var fs []atomicfile.File
+	var fs, vector []atomicfile.File
+	// Each plot as a PNG and, with p.PlotFormat, as a vector file of the
+	// same size (plotW × plotH at plotDPI, in points).
+	plotFile := func(name string, pl figure.Plot) atomicfile.File {
+		if p.PlotFormat != "" {
+			vname := strings.TrimSuffix(name, ".png") + "." + p.PlotFormat
+			vector = append(vector, atomicfile.File{Name: vname, Encode: func(w io.Writer) error {
+				return pl.EncodeVector(w, p.PlotFormat, plotW*72/plotDPI, plotH*72/plotDPI)
+			}})
+		}
+		return pngPlotFile(name, pl)
+	}
 	fs = append(fs, csvFile("thickness.csv", func(w io.Writer) {
 		fmt.Fprintln(w, "thickness_nm,bf,df")
 		for i, t := range p.Thickness.X {
@@ -109,7 +120,7 @@ func (p *Plan) files() []atomicfile.File {
 	if t := p.GB; t != nil {
 		fs = append(fs, csvFile("gb.csv", func(w io.Writer) { t.writeCSV(w) }))
 	}
-	return fs
+	return append(fs, vector...)
 }
 
 func coarseIdx(n, k int) []int {

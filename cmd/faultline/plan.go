@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"faultline/figure"
 	"faultline/plan"
 )
 
@@ -27,6 +28,7 @@ measured reuse of the field samples.
   -o DIR                  the output directory (required)
   --thickness-nm A:B:STEP thickness range, nm
   --s-per-nm A:B:STEP     excitation-error range, 1/nm
+  --figure-format pdf|svg also write every plot in that format beside its PNG
   --candidates LIST       Burgers-vector families, comma-separated
   --set PATH=VALUE        override a field of the scene (JSON value; repeatable)
 `
@@ -37,6 +39,7 @@ func cmdPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	tr := fs.String("thickness-nm", "", "thickness range A:B:STEP, nm")
 	sr := fs.String("s-per-nm", "", "excitation-error range A:B:STEP, 1/nm")
 	cand := fs.String("candidates", "", "Burgers-vector families, comma-separated (1/2<110>)")
+	plotFormat := fs.String("figure-format", "", "also every plot as pdf or svg")
 	set := setFlag(fs)
 	commandUsage["plan"] = planUsage
 	path, err := parse(fs, args, stdout)
@@ -45,6 +48,9 @@ func cmdPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	}
 	if *out == "" {
 		return usageError{"plan: give the output directory with -o DIR"}
+	}
+	if *plotFormat != "" && *plotFormat != figure.PaperPDF && *plotFormat != figure.PaperSVG {
+		return usageError{fmt.Sprintf("--figure-format %s: the formats are pdf and svg (the PNGs are always written)", *plotFormat)}
 	}
 	var opt plan.Options
 	if *tr != "" {
@@ -85,6 +91,7 @@ func cmdPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		}
 		return err
 	}
+	p.PlotFormat = *plotFormat
 	if err := p.Write(ctx, *out); err != nil {
 		if errors.Is(err, context.Canceled) {
 			return err
