@@ -48,6 +48,8 @@ type Series struct {
 	// BlurNm is the σ of a Gaussian applied to every simulation to match
 	// the micrographs' resolution (0: none).
 	BlurNm float64
+	// RefineRotationDeg: see Options.
+	RefineRotationDeg float64
 }
 
 // Cell is the comparison of one candidate with one micrograph.
@@ -56,9 +58,12 @@ type Cell struct {
 	Score      float64 // normalised correlation at the best placement
 	Error      float64 // its standard error (see scoreError)
 	Shift      Shift
-	GDotB      float64 // NaN when the candidate is not a Burgers vector
-	GDotBxU    float64 // g·(b × u), u the unit line direction; NaN without a line
-	Simulated  *Raster // the simulation, placed as registered
+	// RotationDeg is the turn of the simulation (counter-clockwise as
+	// displayed) that the optional rotation refinement found.
+	RotationDeg float64
+	GDotB       float64 // NaN when the candidate is not a Burgers vector
+	GDotBxU     float64 // g·(b × u), u the unit line direction; NaN without a line
+	Simulated   *Raster // the simulation, placed as registered
 	// Flat is true when the simulation showed no contrast and the score
 	// is the micrograph's flatness (see compare).
 	Flat bool
@@ -78,6 +83,11 @@ type Ranked struct {
 type Options struct {
 	Workers  int
 	Progress func(done, total int)
+	// RefineRotationDeg, if positive, also turns each simulation by up
+	// to this angle either way (whole degrees, then a parabola through
+	// the best three) to absorb a small error in a micrograph's g angle;
+	// at most 3°.
+	RefineRotationDeg float64
 	// MaxShiftPx bounds the registration's search about the centred
 	// placement (0: any shift with half the picture overlapping).
 	MaxShiftPx int
@@ -159,6 +169,9 @@ func Identify(ctx context.Context, s *Series, opt Options) ([]Ranked, error) {
 			if opt.MaxShiftPx == 0 {
 				opt.MaxShiftPx = max(v.W, v.H) / 4
 			}
+			if opt.RefineRotationDeg == 0 {
+				opt.RefineRotationDeg = s.RefineRotationDeg
+			}
 			cell, err := compare(m, simR, opt)
 			if err != nil {
 				return nil, fmt.Errorf("micrographs[%d] (%s) with candidate %s: %w", mi, m.Name, c.Label, err)
@@ -217,6 +230,38 @@ func compare(m *Micrograph, simR *Raster, opt Options) (Cell, error) {
 	if err != nil {
 		return Cell{}, err
 	}
+	rot := 0.0
+	if r := math.Min(opt.RefineRotationDeg, 3); r > 0 {
+		view := View{W: simR.W, H: simR.H, NmPerPx: simR.NmPerPx}
+		try := func(deg float64) (*Raster, Shift, bool) {
+			view.GAngleDeg = deg
+			turned := Place(simR, 0, view)
+			s, err := Register(m.Raster, turned, RegisterOptions{MaxShiftPx: opt.MaxShiftPx})
+			return turned, s, err == nil
+		}
+		scores := map[float64]float64{0: sh.Score}
+		best := 0.0
+		for d := 1.0; d <= r; d++ {
+			for _, deg := range []float64{-d, d} {
+				if turned, s, ok := try(deg); ok {
+					scores[deg] = s.Score
+					if s.Score > sh.Score {
+						sh, simR, best = s, turned, deg
+					}
+				}
+			}
+		}
+		a, okA := scores[best-1]
+		c, okC := scores[best+1]
+		if okA && okC {
+			if d := best + parabolicPeak(a, scores[best], c); d != best {
+				if turned, s, ok := try(d); ok && s.Score > sh.Score {
+					sh, simR, best = s, turned, d
+				}
+			}
+		}
+		rot = best
+	}
 	placed := m.Raster.Crop(0, 0, m.Raster.W, m.Raster.H)
 	for k := range placed.Pix {
 		placed.Pix[k] = math.NaN()
@@ -229,7 +274,7 @@ func compare(m *Micrograph, simR *Raster, opt Options) (Cell, error) {
 			}
 		}
 	}
-	return Cell{Micrograph: m.Name, Score: sh.Score, Error: scoreError(m.Raster, placed, sh.Score), Shift: sh, Simulated: placed}, nil
+	return Cell{Micrograph: m.Name, Score: sh.Score, Error: scoreError(m.Raster, placed, sh.Score), Shift: sh, RotationDeg: rot, Simulated: placed}, nil
 }
 
 // gDotB returns g·b and g·(b × u) for a Burgers-vector candidate b of

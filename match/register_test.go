@@ -127,3 +127,34 @@ func TestPlaceRotation(t *testing.T) {
 		t.Fatalf("offset of 10 px up with g up = (%g, %g) nm, want (5, 0)", dx, dy)
 	}
 }
+
+// The optional rotation refinement finds a simulation turned by a couple
+// of degrees against the micrograph (an error in the measured g angle).
+func TestRotationRefinement(t *testing.T) {
+	sim := NewRaster(48, 48, 1)
+	for j := 0; j < 48; j++ {
+		for i := 0; i < 48; i++ {
+			x, y := float64(i)+0.5-24, float64(j)+0.5-24
+			// A long line through the centre and an off-centre spot.
+			sim.Pix[j*48+i] = math.Exp(-y*y/3) + 0.8*math.Exp(-((x-10)*(x-10)+(y-8)*(y-8))/6)
+		}
+	}
+	mic := Place(sim, 0, View{W: 48, H: 48, NmPerPx: 1, GAngleDeg: 2})
+	for k, v := range mic.Pix {
+		if math.IsNaN(v) {
+			mic.Pix[k] = 0
+		}
+	}
+	m := &Micrograph{Name: "turned", Raster: mic}
+	plain, err := compare(m, sim, Options{MaxShiftPx: 6})
+	if err != nil {
+		t.Fatal(err)
+	}
+	refined, err := compare(m, sim, Options{MaxShiftPx: 6, RefineRotationDeg: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(refined.RotationDeg-2) > 0.5 || refined.Score <= plain.Score {
+		t.Errorf("refined turn %.2f° (score %.4f against %.4f unturned), want about 2°", refined.RotationDeg, refined.Score, plain.Score)
+	}
+}

@@ -30,13 +30,16 @@ const SetVersion = 1
 // the varied defect (default: the first dislocation or loop for b, the
 // first loop for nature, the first fault for kind).
 type SetFile struct {
-	Version     int          `json:"version"`
-	Scene       string       `json:"scene"`
-	Candidates  []string     `json:"candidates"`
-	Vary        string       `json:"vary,omitempty"`
-	Defect      *int         `json:"defect,omitempty"`
-	BlurNm      *float64     `json:"blur_nm,omitempty"`
-	Micrographs []SetPicture `json:"micrographs"`
+	Version    int      `json:"version"`
+	Scene      string   `json:"scene"`
+	Candidates []string `json:"candidates"`
+	Vary       string   `json:"vary,omitempty"`
+	Defect     *int     `json:"defect,omitempty"`
+	BlurNm     *float64 `json:"blur_nm,omitempty"`
+	// RefineRotationDeg turns each simulation by up to this many degrees
+	// (at most 3) to absorb an error in the micrographs' g angles.
+	RefineRotationDeg *float64     `json:"refine_rotation_deg,omitempty"`
+	Micrographs       []SetPicture `json:"micrographs"`
 }
 
 // SetPicture is one micrograph of a set. nm_per_px overrides the pixel
@@ -47,6 +50,10 @@ type SetPicture struct {
 	GAngleDeg   *float64        `json:"g_angle_deg,omitempty"`
 	Kind        string          `json:"kind,omitempty"`
 	Diffraction json.RawMessage `json:"diffraction,omitempty"`
+	// RoiPx restricts the comparison to the pixels x0 ≤ x < x1,
+	// y0 ≤ y < y1 of the micrograph; the scene's origin is placed at the
+	// region's centre.
+	RoiPx []int `json:"roi_px,omitempty"`
 }
 
 // setErr is an error about a field of a set file.
@@ -105,6 +112,12 @@ func LoadSeries(path string) (*Series, []string, error) {
 		}
 		s.BlurNm = *f.BlurNm
 	}
+	if r := f.RefineRotationDeg; r != nil {
+		if !(*r >= 0 && *r <= 3) {
+			return nil, nil, setErr("refine_rotation_deg", "%g: want 0 to 3 degrees", *r)
+		}
+		s.RefineRotationDeg = *r
+	}
 	if s.Defect, s.Candidates, err = CandidatesFor(st, f.Vary, f.Candidates, f.Defect); err != nil {
 		return nil, nil, err
 	}
@@ -146,6 +159,13 @@ func LoadSeries(path string) (*Series, []string, error) {
 			}
 		}
 		m := Micrograph{Name: p.Image, Raster: FromFloat32(img.Width, img.Height, img.Pix, nm), GAngleDeg: angle, Kind: kind, Diffraction: p.Diffraction}
+		if p.RoiPx != nil {
+			r := p.RoiPx
+			if len(r) != 4 || r[0] < 0 || r[1] < 0 || r[2] > img.Width || r[3] > img.Height || r[2]-r[0] < 8 || r[3]-r[1] < 8 {
+				return nil, nil, setErr(at+".roi_px", "%v: want [x0, y0, x1, y1] inside the %d × %d image, at least 8 px each way", r, img.Width, img.Height)
+			}
+			m.Raster = m.Raster.Crop(r[0], r[1], r[2]-r[0], r[3]-r[1])
+		}
 		sc, err := s.SceneFor(&m)
 		if err != nil {
 			return nil, nil, fmt.Errorf("%s.diffraction: %w", at, err)

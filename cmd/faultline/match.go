@@ -91,6 +91,7 @@ type jsonCell struct {
 	GDotBCrossU *float64   `json:"g_dot_b_cross_u,omitempty"`
 	NoContrast  bool       `json:"no_contrast,omitempty"`
 	ShiftPx     [2]float64 `json:"shift_px"`
+	RotationDeg float64    `json:"rotation_deg"`
 }
 
 type jsonRanked struct {
@@ -122,7 +123,7 @@ func rankingJSON(ranked []match.Ranked) any {
 		for _, c := range r.Cells {
 			j.Micrographs = append(j.Micrographs, jsonCell{Image: c.Micrograph, Score: round4(c.Score), Error: round4(c.Error),
 				GDotB: finitePtr(c.GDotB), GDotBCrossU: finitePtr(round4(c.GDotBxU)), NoContrast: c.Flat,
-				ShiftPx: [2]float64{round4(c.Shift.DX), round4(c.Shift.DY)}})
+				ShiftPx: [2]float64{round4(c.Shift.DX), round4(c.Shift.DY)}, RotationDeg: round4(c.RotationDeg)})
 		}
 		out[i] = j
 	}

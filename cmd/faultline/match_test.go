@@ -143,6 +143,8 @@ func TestIdentifyBadInput(t *testing.T) {
 		{"family the crystal lacks", `"1/2<110>"->"1/3<11-20>"`, "candidates[0]"},
 		{"empty candidates", `["1/2<110>"]->[]`, "candidates: the list is empty"},
 		{"unknown field", `"blur_nm"->"blurr_nm"`, "unknown field"},
+		{"region outside", `"nm_per_px": 1.6, "g_angle_deg": 0->"nm_per_px": 1.6, "roi_px": [0, 0, 100, 10], "g_angle_deg": 0`, "micrographs[0].roi_px"},
+		{"rotation too large", `"blur_nm": 1.5->"blur_nm": 1.5, "refine_rotation_deg": 10`, "refine_rotation_deg"},
 	} {
 		pairs := strings.SplitN(c.edit, "->", 2)
 		text := strings.Replace(goodSet, pairs[0], pairs[1], 1)
