@@ -88,7 +88,7 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 		v.mapping.Invert = on
 		v.redraw()
 	})
-	v.Outlines = widget.NewCheck("Defects", func(bool) { v.refreshAll() })
+	v.Outlines = widget.NewCheck("Draw the defects", func(bool) { v.refreshAll() })
 	v.Tool = widget.NewRadioGroup([]string{toolPan, toolLine}, nil)
 	v.Tool.Horizontal = true
 	v.Tool.Required = true
@@ -102,7 +102,7 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 	})
 
 	bar := container.NewBorder(nil, nil,
-		container.NewHBox(widget.NewLabel("Grey"), container.NewGridWrap(fyne.NewSize(205, v.Grey.MinSize().Height), v.Grey), v.Invert, v.Outlines, widget.NewSeparator()),
+		container.NewHBox(widget.NewLabel("Grey"), container.NewGridWrap(fyne.NewSize(205, v.Grey.MinSize().Height), v.Grey), v.Invert, widget.NewSeparator()),
 		container.NewHBox(widget.NewSeparator(), zout, fit, zin),
 		container.NewHBox(v.Tool, clear),
 	)
@@ -128,7 +128,7 @@ func imagesPanel(ws *Workspace) fyne.CanvasObject {
 			}
 		}
 	})
-	return container.NewBorder(bar, v.Readout, nil, nil, v.grid)
+	return container.NewBorder(bar, container.NewBorder(nil, nil, nil, v.Outlines, v.Readout), nil, nil, v.grid)
 }
 
 func (v *imageView) lineTool() bool { return v.Tool.Selected == toolLine }
