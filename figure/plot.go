@@ -113,25 +113,75 @@ func (p Plot) YRange() (lo, hi float64) {
 	return lo - pad, hi + pad
 }
 
+// PlotFrame says where a drawn plot's data area lies in its image, in
+// pixels from the image's top-left corner, and the axis ranges it spans:
+// what a window needs to turn a click on the plot into a data value.
+type PlotFrame struct {
+	Left, Right, Top, Bottom float64 // the data area's edges, pixels
+	XMin, XMax, YMin, YMax   float64 // the axes' ranges at those edges
+}
+
+// XAt returns the x value at pixel column px of the image (px measured
+// from the image's left edge, fractions allowed), and whether px lies
+// within the data area.
+func (f PlotFrame) XAt(px float64) (float64, bool) {
+	if !(f.Right > f.Left) {
+		return math.NaN(), false
+	}
+	u := (px - f.Left) / (f.Right - f.Left)
+	return f.XMin + u*(f.XMax-f.XMin), u >= 0 && u <= 1
+}
+
+// PixelX returns the pixel column of x value v (the inverse of XAt).
+func (f PlotFrame) PixelX(v float64) float64 {
+	return f.Left + (v-f.XMin)/(f.XMax-f.XMin)*(f.Right-f.Left)
+}
+
 // Image draws the plot into a w × h pixel image at dpi (96 for a screen
 // at scale 1). The legend stands in a column right of the axes, so it
 // never covers a curve.
 func (p Plot) Image(w, h int, dpi float64) (*image.RGBA, error) {
+	img, _, err := p.Framed(w, h, dpi)
+	return img, err
+}
+
+// Framed draws the plot as [Plot.Image] does and also returns where its
+// data area lies in the image.
+func (p Plot) Framed(w, h int, dpi float64) (*image.RGBA, PlotFrame, error) {
 	if w <= 0 || h <= 0 || !(dpi > 0) {
-		return nil, fmt.Errorf("figure: plot of %d×%d px at %g dpi: sizes must be positive", w, h, dpi)
+		return nil, PlotFrame{}, fmt.Errorf("figure: plot of %d×%d px at %g dpi: sizes must be positive", w, h, dpi)
 	}
 	pts := func(px int) vg.Length { return vg.Length(float64(px) * 72 / dpi) }
 	c := vgimg.NewWith(vgimg.UseWH(pts(w), pts(h)), vgimg.UseDPI(int(math.Round(dpi))))
-	if err := p.drawOn(c); err != nil {
-		return nil, err
+	da, err := p.drawOn(c)
+	if err != nil {
+		return nil, PlotFrame{}, err
 	}
-	return c.Image().(*image.RGBA), nil
+	// The data area as gonum/plot lays it out (points from the bottom
+	// left), in pixels from the top left.
+	px := float64(c.DPI()) / 72
+	img := c.Image().(*image.RGBA)
+	hpx := float64(img.Bounds().Dy())
+	f := PlotFrame{
+		Left: float64(da.r.Min.X) * px, Right: float64(da.r.Max.X) * px,
+		Top: hpx - float64(da.r.Max.Y)*px, Bottom: hpx - float64(da.r.Min.Y)*px,
+		XMin: da.xmin, XMax: da.xmax, YMin: da.ymin, YMax: da.ymax,
+	}
+	return img, f, nil
 }
 
-// drawOn draws the plot on a canvas of any of gonum/plot's back ends.
-func (p Plot) drawOn(c vg.CanvasSizer) error {
+// dataArea is where a drawn plot's data lie on its canvas (points from
+// the bottom left) and the axes' ranges there.
+type dataArea struct {
+	r                      vg.Rectangle
+	xmin, xmax, ymin, ymax float64
+}
+
+// drawOn draws the plot on a canvas of any of gonum/plot's back ends and
+// returns its data area.
+func (p Plot) drawOn(c vg.CanvasSizer) (dataArea, error) {
 	if len(p.Series) == 0 {
-		return errors.New("figure: plot has no series")
+		return dataArea{}, errors.New("figure: plot has no series")
 	}
 	pl := plot.New()
 	pl.TextHandler = text.Plain{Fonts: plotFonts()}
@@ -149,7 +199,7 @@ func (p Plot) drawOn(c vg.CanvasSizer) error {
 	leg.Top, leg.Left = true, true
 	for k, s := range p.Series {
 		if len(s.X) != len(s.Y) {
-			return fmt.Errorf("figure: series %q has %d x and %d y values", s.Name, len(s.X), len(s.Y))
+			return dataArea{}, fmt.Errorf("figure: series %q has %d x and %d y values", s.Name, len(s.X), len(s.Y))
 		}
 		col := s.Colour
 		if col == nil {
@@ -159,7 +209,7 @@ func (p Plot) drawOn(c vg.CanvasSizer) error {
 		for _, seg := range segments(s.X, s.Y) {
 			l, err := plotter.NewLine(seg)
 			if err != nil {
-				return fmt.Errorf("figure: series %q: %w", s.Name, err)
+				return dataArea{}, fmt.Errorf("figure: series %q: %w", s.Name, err)
 			}
 			l.Color, l.Width = col, vg.Points(1.5)
 			if s.Dashed {
@@ -185,11 +235,12 @@ func (p Plot) drawOn(c vg.CanvasSizer) error {
 	if legW > 0 {
 		legW += 3 * pad
 	}
-	pl.Draw(draw.Crop(dc, 0, -legW, 0, 0))
+	area := draw.Crop(dc, 0, -legW, 0, 0)
+	pl.Draw(area)
 	if legW > 0 {
 		leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-legW+pad, 0, 0, -pad))
 	}
-	return nil
+	return dataArea{pl.DataCanvas(area).Rectangle, pl.X.Min, pl.X.Max, pl.Y.Min, pl.Y.Max}, nil
 }
 
 // segments splits (x, y) at NaN or infinite values into runs of at least

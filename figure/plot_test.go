@@ -137,3 +137,41 @@ func TestNiceStep(t *testing.T) {
 		}
 	}
 }
+
+// The frame Framed returns says where the data lie: a vertical orange
+// segment at x = 30 and y from 0.2 to 0.8 is inked where the frame puts
+// those values (measured on the drawn pixels, within 1.5 px for the
+// line's width and antialiasing), and XAt inverts PixelX.
+func TestPlotFrame(t *testing.T) {
+	x, y := sine(0.1, 0.9)
+	orange := PlotColours[2].(color.NRGBA)
+	p := Plot{Title: "frame", XLabel: "thickness (nm)", YLabel: "intensity", Y: YUnit, Series: []Series{
+		{Name: "BF", X: x, Y: y},
+		{X: []float64{30, 30}, Y: []float64{0.2, 0.8}, Colour: orange},
+	}}
+	img, f, err := p.Framed(640, 300, 96)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.XMin != 0 || f.XMax != 100 || f.YMin != 0 || f.YMax != 1 {
+		t.Fatalf("frame ranges x %g–%g y %g–%g, want 0–100 and 0–1", f.XMin, f.XMax, f.YMin, f.YMax)
+	}
+	box := inkBox(img, orange)
+	if box.Empty() {
+		t.Fatal("no orange ink")
+	}
+	mid := float64(box.Min.X+box.Max.X) / 2
+	if want := f.PixelX(30); math.Abs(mid-want) > 1.5 {
+		t.Errorf("segment at x = 30 inked about column %.1f, frame says %.1f", mid, want)
+	}
+	yAt := func(v float64) float64 { return f.Bottom - (v-f.YMin)/(f.YMax-f.YMin)*(f.Bottom-f.Top) }
+	if top, bot := float64(box.Min.Y), float64(box.Max.Y); math.Abs(top-yAt(0.8)) > 1.5 || math.Abs(bot-yAt(0.2)) > 1.5 {
+		t.Errorf("segment inked rows %v–%v, frame says %.1f–%.1f", top, bot, yAt(0.8), yAt(0.2))
+	}
+	if v, ok := f.XAt(f.PixelX(42)); !ok || math.Abs(v-42) > 1e-9 {
+		t.Errorf("XAt(PixelX(42)) = %g, %v", v, ok)
+	}
+	if _, ok := f.XAt(f.Left - 5); ok {
+		t.Error("a column left of the data area counted as inside it")
+	}
+}

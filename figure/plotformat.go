@@ -29,7 +29,7 @@ func (p Plot) EncodeVector(w io.Writer, format string, wPt, hPt float64) error {
 	default:
 		return fmt.Errorf("figure: plot format %q: want pdf or svg", format)
 	}
-	if err := p.drawOn(c); err != nil {
+	if _, err := p.drawOn(c); err != nil {
 		return err
 	}
 	_, err := c.WriteTo(w)

@@ -70,15 +70,13 @@ func (p *Plan) files() []atomicfile.File {
 		for i, t := range p.Thickness.X {
 			fmt.Fprintf(w, "%s,%s,%s\n", num(t), num(p.Thickness.BF[i]), num(p.Thickness.DF[i]))
 		}
-	}), plotFile("thickness.png", figure.Plot{Title: fmt.Sprintf("Thickness fringes, perfect crystal, s = %.4g /nm", p.Setup.SPerNm), XLabel: "thickness (nm)", YLabel: "intensity (of the incident beam)", Y: figure.YUnit,
-		Series: []figure.Series{{Name: "bright field", X: p.Thickness.X, Y: p.Thickness.BF}, {Name: "dark field", X: p.Thickness.X, Y: p.Thickness.DF}}}))
+	}), plotFile("thickness.png", p.ThicknessPlot()))
 	fs = append(fs, csvFile("rocking.csv", func(w io.Writer) {
 		fmt.Fprintln(w, "s_per_nm,bf,df")
 		for i, s := range p.Rocking.X {
 			fmt.Fprintf(w, "%s,%s,%s\n", num(s), num(p.Rocking.BF[i]), num(p.Rocking.DF[i]))
 		}
-	}), plotFile("rocking.png", figure.Plot{Title: fmt.Sprintf("Rocking curve, perfect crystal, t = %g nm", p.Setup.Problem.ThicknessNm), XLabel: "s (1/nm)", YLabel: "intensity (of the incident beam)", Y: figure.YUnit,
-		Series: []figure.Series{{Name: "bright field", X: p.Rocking.X, Y: p.Rocking.BF}, {Name: "dark field", X: p.Rocking.X, Y: p.Rocking.DF}}}))
+	}), plotFile("rocking.png", p.RockingPlot()))
 	if v := p.Visibility; v != nil {
 		fs = append(fs, csvFile("visibility.csv", func(w io.Writer) {
 			fmt.Fprintln(w, "thickness_nm,s_per_nm,visibility")
@@ -167,23 +165,7 @@ func (p *Plan) WriteText(w io.Writer) error {
 		fmt.Fprintf(bw, "  - %s\n    because %s\n", s.What, s.Why)
 	}
 	if t := p.GB; t != nil {
-		fmt.Fprintf(bw, "g·b table (g·(b×u) in brackets, u = %s):\n", orNone(t.Line))
-		fmt.Fprintf(bw, "  %-16s", "b \\ g")
-		for _, g := range t.G {
-			fmt.Fprintf(bw, " %12s", g)
-		}
-		fmt.Fprintln(bw)
-		for i, c := range t.Candidates {
-			fmt.Fprintf(bw, "  %-16s", c)
-			for k := range t.G {
-				cell := num(t.GB[i][k])
-				if t.GBxU != nil {
-					cell += " [" + fmt.Sprintf("%.2f", t.GBxU[i][k]) + "]"
-				}
-				fmt.Fprintf(bw, " %12s", cell)
-			}
-			fmt.Fprintln(bw)
-		}
+		t.writeText(bw)
 	}
 	if r := p.Reuse; r.Points > 0 {
 		fmt.Fprintf(bw, "field samples: recorded once (%.2f s) and replayed at %d (t, s) points × %d columns in %.2f s (%d columns integrated afresh); one point: %.3f s fresh, %.3f s replayed, largest difference %.1e\n",
@@ -200,4 +182,32 @@ func orNone(s string) string {
 		return "none in the scene, so no g·(b×u)"
 	}
 	return s
+}
+
+// WriteText writes the table as the command line prints it: one row per
+// candidate, g·(b×u) in brackets.
+func (t *GBTable) WriteText(w io.Writer) error {
+	bw := bufio.NewWriter(w)
+	t.writeText(bw)
+	return bw.Flush()
+}
+
+func (t *GBTable) writeText(bw *bufio.Writer) {
+	fmt.Fprintf(bw, "g·b table (g·(b×u) in brackets, u = %s):\n", orNone(t.Line))
+	fmt.Fprintf(bw, "  %-16s", "b \\ g")
+	for _, g := range t.G {
+		fmt.Fprintf(bw, " %12s", g)
+	}
+	fmt.Fprintln(bw)
+	for i, c := range t.Candidates {
+		fmt.Fprintf(bw, "  %-16s", c)
+		for k := range t.G {
+			cell := num(t.GB[i][k])
+			if t.GBxU != nil {
+				cell += " [" + fmt.Sprintf("%.2f", t.GBxU[i][k]) + "]"
+			}
+			fmt.Fprintf(bw, " %12s", cell)
+		}
+		fmt.Fprintln(bw)
+	}
 }

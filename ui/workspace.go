@@ -29,6 +29,7 @@ type Workspace struct {
 	status  *statusLine
 	micro   *micrographView
 	match   *matchPanel
+	plan    *planPanel
 	tabs    *container.AppTabs
 
 	onMicrograph []func()
@@ -53,11 +54,13 @@ func NewWorkspace(a fyne.App, win fyne.Window, post func(func())) *Workspace {
 	defects := defectsPanelObject(ws)
 	micro := micrographPanel(ws)
 	matching := matchPanelObject(ws)
+	planning := planPanelObject(ws)
 	ws.tabs = container.NewAppTabs(
 		container.NewTabItem("Conditions", conditions),
 		container.NewTabItem("Defects", defects),
 		container.NewTabItem("Micrograph", micro),
 		container.NewTabItem("Match", matching),
+		container.NewTabItem("Plan", planning),
 	)
 	ws.board.onShown = ws.revealError
 

@@ -1,0 +1,273 @@
+package ui
+
+import (
+	"context"
+	"fmt"
+	"image"
+	"math"
+	"strings"
+	"sync"
+	"time"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/widget"
+
+	"faultline/figure"
+	"faultline/plan"
+	"faultline/scene"
+)
+
+// planPanel shows the planner's curves, suggestions and g·b table for the
+// current scene (the plan package's work, the same as `faultline plan`),
+// run off the UI goroutine. Clicking a curve sets that thickness or s.
+type planPanel struct {
+	ws     *Workspace
+	mu     sync.Mutex
+	cancel context.CancelFunc
+	result *plan.Plan
+
+	cands   *widget.Entry
+	run     *widget.Button
+	status  *widget.Label
+	errl    *widget.Label
+	bar     *widget.ProgressBarInfinite
+	stop    *widget.Button
+	thick   *plotView
+	rocking *plotView
+	suggest *widget.Label
+	table   *widget.Label
+	notes   *widget.Label
+}
+
+// planPanelObject returns the Plan tab.
+func planPanelObject(ws *Workspace) fyne.CanvasObject {
+	pp := &planPanel{ws: ws}
+	ws.plan = pp
+	pp.cands = widget.NewEntry()
+	pp.cands.SetPlaceHolder("none (e.g. 1/2<110>, 1/3<111>)")
+	pp.run = widget.NewButton("Plan the current scene", func() {
+		if err := pp.start(); err != nil {
+			setError(pp.errl, oneLine(err.Error()))
+			return
+		}
+		setError(pp.errl, "")
+	})
+	pp.status = widget.NewLabel("")
+	pp.status.Wrapping = fyne.TextWrapWord
+	pp.errl = errorLabel()
+	pp.bar = widget.NewProgressBarInfinite()
+	pp.bar.Stop()
+	pp.bar.Hide()
+	pp.stop = widget.NewButton("Cancel", func() { pp.cancelWork() })
+	pp.stop.Hide()
+	pp.thick = newPlotView(func(t float64) { pp.pick("foil.thickness_nm", "thickness", t, "nm") })
+	pp.rocking = newPlotView(func(s float64) { pp.pick("diffraction.s_per_nm", "s", s, "/nm") })
+	pp.thick.Hide()
+	pp.rocking.Hide()
+	pp.suggest = widget.NewLabel("")
+	pp.suggest.Wrapping = fyne.TextWrapWord
+	pp.table = widget.NewLabel("")
+	pp.table.TextStyle = fyne.TextStyle{Monospace: true}
+	pp.notes = widget.NewLabel("")
+	pp.notes.Wrapping = fyne.TextWrapWord
+	pp.notes.TextStyle = fyne.TextStyle{Italic: true}
+
+	intro := widget.NewLabel("Plans the imaging conditions of the scene as `faultline plan` does: thickness fringes and rocking curve of the perfect crystal, the defects' visibility and the weak-beam conditions, and with candidate Burgers-vector families the g·b table. Click a curve to set that thickness or s.")
+	intro.Wrapping = fyne.TextWrapWord
+	intro.TextStyle = fyne.TextStyle{Italic: true}
+	return container.NewVScroll(container.NewPadded(container.NewVBox(
+		intro,
+		form(formRow("Candidates", pp.cands)),
+		container.NewHBox(pp.run),
+		container.NewBorder(nil, nil, nil, pp.stop, pp.bar),
+		pp.status, pp.errl,
+		pp.thick, pp.rocking,
+		pp.suggest,
+		container.NewHScroll(pp.table),
+		pp.notes,
+	)))
+}
+
+// start plans a copy of the current scene off the UI goroutine; the
+// result comes back through the controller's post.
+func (pp *planPanel) start() error {
+	sc := pp.ws.ctrl.Scene()
+	if sc == nil || pp.ws.ctrl.Setup() == nil {
+		return fmt.Errorf("the scene does not build; mend it first")
+	}
+	c, err := scene.Clone(sc)
+	if err != nil {
+		return err
+	}
+	opt := plan.Options{Candidates: splitList(pp.cands.Text)}
+	dir := pp.ws.ctrl.Dir()
+	pp.cancelWork()
+	ctx, cancel := context.WithCancel(context.Background())
+	pp.mu.Lock()
+	pp.cancel = cancel
+	pp.mu.Unlock()
+	post := pp.ws.ctrl.Post
+	pp.bar.Show()
+	pp.bar.Start()
+	pp.stop.Show()
+	pp.run.Disable()
+	pp.status.SetText("planning…")
+	began := time.Now()
+	go func() {
+		p, err := plan.Make(ctx, c, dir, opt)
+		post(func() {
+			pp.bar.Stop()
+			pp.bar.Hide()
+			pp.stop.Hide()
+			pp.run.Enable()
+			switch {
+			case ctx.Err() != nil:
+				pp.status.SetText("planning: cancelled")
+			case err != nil:
+				pp.status.SetText("")
+				setError(pp.errl, oneLine(err.Error()))
+			default:
+				pp.show(p, time.Since(began))
+			}
+		})
+	}()
+	return nil
+}
+
+func (pp *planPanel) cancelWork() {
+	pp.mu.Lock()
+	defer pp.mu.Unlock()
+	if pp.cancel != nil {
+		pp.cancel()
+		pp.cancel = nil
+	}
+}
+
+// show puts a finished plan in the panel.
+func (pp *planPanel) show(p *plan.Plan, took time.Duration) {
+	pp.result = p
+	if err := pp.thick.set(p.ThicknessPlot()); err != nil {
+		setError(pp.errl, "thickness curve: "+err.Error())
+	}
+	if err := pp.rocking.set(p.RockingPlot()); err != nil {
+		setError(pp.errl, "rocking curve: "+err.Error())
+	}
+	pp.thick.Show()
+	pp.rocking.Show()
+	var b strings.Builder
+	b.WriteString("Suggested conditions:\n")
+	for _, s := range p.Suggestions {
+		fmt.Fprintf(&b, "• %s — because %s\n", s.What, s.Why)
+	}
+	pp.suggest.SetText(strings.TrimSpace(b.String()))
+	pp.table.SetText("")
+	if p.GB != nil {
+		var t strings.Builder
+		if err := p.GB.WriteText(&t); err == nil {
+			pp.table.SetText(strings.TrimRight(t.String(), "\n"))
+		}
+	}
+	var n []string
+	if r := p.Reuse; r.Points > 0 {
+		n = append(n, fmt.Sprintf("Visibility over %d (t, s) points from field samples recorded once (%.2f s) and replayed (%.2f s).", r.Points, r.RecordSeconds, r.ReplaySeconds))
+	}
+	for _, s := range p.Skipped {
+		n = append(n, "Not computed: "+s+".")
+	}
+	pp.notes.SetText(strings.Join(n, "\n"))
+	pp.status.SetText(fmt.Sprintf("planned %s in %.1f s. Click the thickness curve to set the foil's thickness, the rocking curve to set s (the rocking curve is for t = %g nm).",
+		p.Setup.Describe(), took.Seconds(), p.Setup.Problem.ThicknessNm))
+}
+
+// pick sets the scene field path to the value v picked on a curve.
+func (pp *planPanel) pick(path, name string, v float64, unit string) {
+	if err := pp.ws.ctrl.Set(scene.Edit{Path: path, Value: v}); err != nil {
+		setError(pp.errl, oneLine(err.Error()))
+		return
+	}
+	setError(pp.errl, "")
+	pp.status.SetText(fmt.Sprintf("%s set to %g %s (%s); plan again to redraw the curves for it", name, v, unit, path))
+}
+
+// plotView is a plot drawn to fit its size; a tap within the data area
+// reports the x value under the pointer, to a pixel's precision.
+type plotView struct {
+	widget.BaseWidget
+	img    *canvas.Image
+	plot   figure.Plot
+	have   bool
+	frame  figure.PlotFrame
+	px     fyne.Size // the size the image was drawn for
+	pxW    int       // the image's width, pixels
+	onPick func(x float64)
+}
+
+func newPlotView(onPick func(x float64)) *plotView {
+	v := &plotView{onPick: onPick, img: canvas.NewImageFromImage(image.NewRGBA(image.Rect(0, 0, 1, 1)))}
+	v.img.FillMode = canvas.ImageFillStretch
+	v.img.ScaleMode = canvas.ImageScaleSmooth
+	v.img.SetMinSize(fyne.NewSize(320, 240))
+	v.ExtendBaseWidget(v)
+	return v
+}
+
+func (v *plotView) CreateRenderer() fyne.WidgetRenderer { return widget.NewSimpleRenderer(v.img) }
+
+// set draws pl at the view's size.
+func (v *plotView) set(pl figure.Plot) error {
+	v.plot, v.have = pl, true
+	v.px = fyne.Size{}
+	return v.draw(v.Size())
+}
+
+// Resize redraws the plot for the new size.
+func (v *plotView) Resize(s fyne.Size) {
+	v.BaseWidget.Resize(s)
+	if v.have && s != v.px {
+		_ = v.draw(s)
+	}
+}
+
+func (v *plotView) draw(s fyne.Size) error {
+	if s.Width < 50 || s.Height < 50 {
+		s = v.img.MinSize()
+	}
+	scale := float32(1)
+	if c := fyne.CurrentApp().Driver().CanvasForObject(v); c != nil && c.Scale() > 0 {
+		scale = c.Scale()
+	}
+	w, h := int(math.Round(float64(s.Width*scale))), int(math.Round(float64(s.Height*scale)))
+	img, f, err := v.plot.Framed(w, h, 96*float64(scale))
+	if err != nil {
+		return err
+	}
+	v.img.Image, v.frame, v.px, v.pxW = img, f, s, w
+	v.img.Refresh()
+	return nil
+}
+
+// valueAt returns the x value under position pos of the view, and whether
+// pos lies on the data area.
+func (v *plotView) valueAt(pos fyne.Position) (float64, bool) {
+	if !v.have || v.Size().Width <= 0 {
+		return math.NaN(), false
+	}
+	px := float64(pos.X) * float64(v.pxW) / float64(v.Size().Width)
+	x, ok := v.frame.XAt(px)
+	if !ok {
+		return x, false
+	}
+	// Round to a pixel's worth (to 1, 2 or 5 × 10^n), so a picked value
+	// reads cleanly.
+	step := figure.NiceStep(math.Abs(v.frame.XMax-v.frame.XMin) / float64(v.frame.Right-v.frame.Left) / 2)
+	return math.Round(x/step) * step, true
+}
+
+// Tapped reports the x value under the pointer.
+func (v *plotView) Tapped(ev *fyne.PointEvent) {
+	if x, ok := v.valueAt(ev.Position); ok && v.onPick != nil {
+		v.onPick(x)
+	}
+}
