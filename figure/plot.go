@@ -279,7 +279,8 @@ func (niceTicks) Ticks(lo, hi float64) []plot.Tick {
 	for v := math.Ceil(lo/minor) * minor; v <= hi+minor*1e-9; v += minor {
 		t := plot.Tick{Value: v}
 		if k := v / step; math.Abs(k-math.Round(k)) < 1e-6 {
-			t.Label = strconv.FormatFloat(math.Round(k)*step, 'g', 6, 64)
+			// + 0 turns a −0 from rounding into 0.
+			t.Label = strconv.FormatFloat(math.Round(k)*step+0, 'g', 6, 64)
 		}
 		out = append(out, t)
 	}

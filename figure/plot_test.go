@@ -175,3 +175,14 @@ func TestPlotFrame(t *testing.T) {
 		t.Error("a column left of the data area counted as inside it")
 	}
 }
+
+// The tick at zero of an axis spanning it reads "0", not "-0".
+func TestTicksNoNegativeZero(t *testing.T) {
+	for _, r := range [][2]float64{{-0.08, 0.08}, {-0.0771, 0.0771}, {-3, 1}} {
+		for _, tk := range (niceTicks{}).Ticks(r[0], r[1]) {
+			if tk.Label == "-0" {
+				t.Errorf("axis %g–%g labels a tick -0", r[0], r[1])
+			}
+		}
+	}
+}

@@ -74,7 +74,7 @@ func planPanelObject(ws *Workspace) fyne.CanvasObject {
 	pp.notes.Wrapping = fyne.TextWrapWord
 	pp.notes.TextStyle = fyne.TextStyle{Italic: true}
 
-	intro := widget.NewLabel("Plans the imaging conditions of the scene as `faultline plan` does: thickness fringes and rocking curve of the perfect crystal, the defects' visibility and the weak-beam conditions, and with candidate Burgers-vector families the g·b table. Click a curve to set that thickness or s.")
+	intro := widget.NewLabel("Plans the imaging conditions of the scene as the command “faultline plan” does: thickness fringes and rocking curve of the perfect crystal, the defects' visibility and the weak-beam conditions, and with candidate Burgers-vector families the g·b table. Click a curve to set that thickness or s.")
 	intro.Wrapping = fyne.TextWrapWord
 	intro.TextStyle = fyne.TextStyle{Italic: true}
 	return container.NewVScroll(container.NewPadded(container.NewVBox(
@@ -177,8 +177,8 @@ func (pp *planPanel) show(p *plan.Plan, took time.Duration) {
 		n = append(n, "Not computed: "+s+".")
 	}
 	pp.notes.SetText(strings.Join(n, "\n"))
-	pp.status.SetText(fmt.Sprintf("planned %s in %.1f s. Click the thickness curve to set the foil's thickness, the rocking curve to set s (the rocking curve is for t = %g nm).",
-		p.Setup.Describe(), took.Seconds(), p.Setup.Problem.ThicknessNm))
+	pp.status.SetText(fmt.Sprintf("Planned in %.1f s (%s). Click the thickness curve to set the foil's thickness, the rocking curve to set s (the rocking curve is for t = %g nm).",
+		took.Seconds(), p.Setup.Describe(), p.Setup.Problem.ThicknessNm))
 }
 
 // pick sets the scene field path to the value v picked on a curve.
