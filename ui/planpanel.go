@@ -66,6 +66,7 @@ func planPanelObject(ws *Workspace) fyne.CanvasObject {
 	pp.rocking = newPlotView(func(s float64) { pp.pick("diffraction.s_per_nm", "s", s, "/nm") })
 	pp.thick.Hide()
 	pp.rocking.Hide()
+	ws.ctrl.OnBuilt(func(st *scene.Setup, _ error) { pp.markScene(st) })
 	pp.suggest = widget.NewLabel("")
 	pp.suggest.Wrapping = fyne.TextWrapWord
 	pp.table = widget.NewLabel("")
@@ -156,6 +157,7 @@ func (pp *planPanel) show(p *plan.Plan, took time.Duration) {
 	}
 	pp.thick.Show()
 	pp.rocking.Show()
+	pp.markScene(pp.ws.ctrl.Setup())
 	var b strings.Builder
 	b.WriteString("Suggested conditions:\n")
 	for _, s := range p.Suggestions {
@@ -181,6 +183,15 @@ func (pp *planPanel) show(p *plan.Plan, took time.Duration) {
 		took.Seconds(), p.Setup.Describe(), p.Setup.Problem.ThicknessNm))
 }
 
+// markScene marks the scene's thickness and s on the curves.
+func (pp *planPanel) markScene(st *scene.Setup) {
+	if pp.result == nil || st == nil {
+		return
+	}
+	pp.thick.setMark(st.Problem.ThicknessNm)
+	pp.rocking.setMark(st.SPerNm)
+}
+
 // pick sets the scene field path to the value v picked on a curve.
 func (pp *planPanel) pick(path, name string, v float64, unit string) {
 	if err := pp.ws.ctrl.Set(scene.Edit{Path: path, Value: v}); err != nil {
@@ -188,7 +199,7 @@ func (pp *planPanel) pick(path, name string, v float64, unit string) {
 		return
 	}
 	setError(pp.errl, "")
-	pp.status.SetText(fmt.Sprintf("%s set to %g %s (%s); plan again to redraw the curves for it", name, v, unit, path))
+	pp.status.SetText(fmt.Sprintf("%s set to %g %s (%s), marked on the curve; plan again for the other curve at this value", name, v, unit, path))
 }
 
 // plotView is a plot drawn to fit its size; a tap within the data area
@@ -198,6 +209,7 @@ type plotView struct {
 	img    *canvas.Image
 	plot   figure.Plot
 	have   bool
+	mark   float64 // x of the scene's value, marked on the plot; NaN for none
 	frame  figure.PlotFrame
 	px     fyne.Size // the size the image was drawn for
 	pxW    int       // the image's width, pixels
@@ -205,7 +217,7 @@ type plotView struct {
 }
 
 func newPlotView(onPick func(x float64)) *plotView {
-	v := &plotView{onPick: onPick, img: canvas.NewImageFromImage(image.NewRGBA(image.Rect(0, 0, 1, 1)))}
+	v := &plotView{onPick: onPick, mark: math.NaN(), img: canvas.NewImageFromImage(image.NewRGBA(image.Rect(0, 0, 1, 1)))}
 	v.img.FillMode = canvas.ImageFillStretch
 	v.img.ScaleMode = canvas.ImageScaleSmooth
 	v.img.SetMinSize(fyne.NewSize(320, 240))
@@ -230,6 +242,18 @@ func (v *plotView) Resize(s fyne.Size) {
 	}
 }
 
+// setMark marks x value x (the scene's) on the plot with a dashed line.
+func (v *plotView) setMark(x float64) {
+	if x == v.mark || (math.IsNaN(x) && math.IsNaN(v.mark)) {
+		return
+	}
+	v.mark = x
+	if v.have {
+		v.px = fyne.Size{}
+		_ = v.draw(v.Size())
+	}
+}
+
 func (v *plotView) draw(s fyne.Size) error {
 	if s.Width < 50 || s.Height < 50 {
 		s = v.img.MinSize()
@@ -239,7 +263,13 @@ func (v *plotView) draw(s fyne.Size) error {
 		scale = c.Scale()
 	}
 	w, h := int(math.Round(float64(s.Width*scale))), int(math.Round(float64(s.Height*scale)))
-	img, f, err := v.plot.Framed(w, h, 96*float64(scale))
+	pl := v.plot
+	if lo, hi, ok := xSpan(pl); ok && v.mark >= lo && v.mark <= hi {
+		ylo, yhi := pl.YRange()
+		pl.Series = append(append([]figure.Series(nil), pl.Series...), figure.Series{Name: "this scene", X: []float64{v.mark, v.mark}, Y: []float64{ylo, yhi},
+			Colour: figure.PlotColours[2], Dashed: true})
+	}
+	img, f, err := pl.Framed(w, h, 96*float64(scale))
 	if err != nil {
 		return err
 	}
@@ -270,4 +300,15 @@ func (v *plotView) Tapped(ev *fyne.PointEvent) {
 	if x, ok := v.valueAt(ev.Position); ok && v.onPick != nil {
 		v.onPick(x)
 	}
+}
+
+// xSpan returns the smallest and largest x of pl's series.
+func xSpan(pl figure.Plot) (lo, hi float64, ok bool) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, s := range pl.Series {
+		for _, x := range s.X {
+			lo, hi = math.Min(lo, x), math.Max(hi, x)
+		}
+	}
+	return lo, hi, lo <= hi
 }

@@ -58,6 +58,9 @@ func TestPlanPanelCurvesAndPick(t *testing.T) {
 	if got := ws.ctrl.Scene().Foil.ThicknessNm; math.Abs(got-want) > tol {
 		t.Errorf("tap at t = %g nm set the thickness to %g nm (a pixel is %g nm)", want, got, tol)
 	}
+	if got := ws.ctrl.Scene().Foil.ThicknessNm; pp.thick.mark != got {
+		t.Errorf("the thickness curve marks %g nm, the scene has %g nm", pp.thick.mark, got)
+	}
 	// And the rocking curve sets s.
 	pp.rocking.Resize(fyne.NewSize(420, 260))
 	wantS := res.Rocking.X[len(res.Rocking.X)/4]
