@@ -19,8 +19,8 @@ import (
 // defects and the foil turn with it. grid is the raster of the result.
 //
 // The field is wrapped, not rebuilt: the integrator reads only the
-// component of R along g, which the wrapper leaves in p's frame. Jumper and
-// Voider are passed through.
+// component of R along g, which the wrapper leaves in p's frame. Jumper,
+// Voider and Phaser (the fast path for g·R) are passed through.
 func Turn(p *Problem, phi float64, grid Grid) *Problem {
 	q := *p
 	q.Grid = grid
@@ -32,7 +32,11 @@ func Turn(p *Problem, phi float64, grid Grid) *Problem {
 		t := &turned{f: p.Field, c: c, s: s}
 		t.j, _ = p.Field.(Jumper)
 		t.v, _ = p.Field.(Voider)
-		q.Field = t
+		if ph, ok := p.Field.(Phaser); ok {
+			q.Field = &turnedPhaser{turned: t, ph: ph}
+		} else {
+			q.Field = t
+		}
 	}
 	return &q
 }
@@ -67,4 +71,20 @@ func (t *turned) Voids(x, y, z0, z1 float64, dst [][2]float64) [][2]float64 {
 	}
 	u, v := t.at(x, y)
 	return t.v.Voids(u, v, z0, z1, dst)
+}
+
+// turnedPhaser is a turned field whose inner field has the Phaser fast
+// path: the phase at a turned position is the inner phase at the position
+// it shows, g unchanged (g·R is read in p's frame).
+type turnedPhaser struct {
+	*turned
+	ph Phaser
+}
+
+func (t *turnedPhaser) Phase(g r3.Vec) func(p r3.Vec) float64 {
+	f := t.ph.Phase(g)
+	return func(p r3.Vec) float64 {
+		x, y := t.at(p.X, p.Y)
+		return f(r3.Vec{X: x, Y: y, Z: p.Z})
+	}
 }

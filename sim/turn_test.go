@@ -51,3 +51,36 @@ func TestTurnQuarterIsTransposition(t *testing.T) {
 		}
 	}
 }
+
+// phasedField offers the Phaser fast path and counts its use.
+type phasedField struct {
+	tiltedField
+	calls *int
+}
+
+func (f phasedField) Phase(g r3.Vec) func(p r3.Vec) float64 {
+	*f.calls++
+	return func(p r3.Vec) float64 { return g.X * f.R(p).X }
+}
+
+// A turned field keeps its inner field's fast path for g·R.
+func TestTurnKeepsPhaser(t *testing.T) {
+	n := 0
+	p := &Problem{
+		Model:       TwoBeam{SPerNm: 0.01, XiGNm: 40, XiGAbsNm: 400, Xi0AbsNm: 400},
+		GPerNm:      5,
+		Field:       phasedField{tiltedField{xc: 2, zc: 30, b: 0.25}, &n},
+		ThicknessNm: 60,
+		Grid:        Grid{NX: 8, NY: 8, WidthNm: 16, HeightNm: 16},
+	}
+	q := Turn(p, 0.3, p.Grid)
+	if _, ok := q.Field.(Phaser); !ok {
+		t.Fatal("the turned field lost the Phaser fast path")
+	}
+	if _, err := Render(context.Background(), q, Options{Workers: 1}); err != nil {
+		t.Fatal(err)
+	}
+	if n == 0 {
+		t.Error("the render did not use the fast path through the turn")
+	}
+}
