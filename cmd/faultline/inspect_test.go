@@ -16,11 +16,7 @@ import (
 // design names; bad micrograph files exit 2 with one line.
 func TestRenderMRCAndInspect(t *testing.T) {
 	dir := t.TempDir()
-	sc := filepath.Join(dir, "s.json")
-	os.WriteFile(sc, []byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
-  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01},
-  "foil": {"thickness_nm": 50},
-  "image": {"width_nm": 40, "height_nm": 20, "pixels": [16, 8]}}`), 0o644)
+	sc := writeFile(t, "s.json", perfectScene)
 	out := filepath.Join(dir, "out")
 	var stdout, stderr bytes.Buffer
 	if code := run(context.Background(), []string{"render", sc, "-o", out, "--format", "mrc"}, &stdout, &stderr); code != exitOK {

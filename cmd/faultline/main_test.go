@@ -119,6 +119,13 @@ func sceneText(nx, ny int, extra string) string {
   "image": {"width_nm": %g, "height_nm": %g, "pixels": [%d, %d]%s}}`, w, h, nx, ny, extra)
 }
 
+// perfectScene is a small perfect copper crystal: the files of a render
+// without any defect.
+const perfectScene = `{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01},
+  "foil": {"thickness_nm": 50},
+  "image": {"width_nm": 40, "height_nm": 20, "pixels": [16, 8]}}`
+
 func writeFile(t *testing.T, name, text string) string {
 	t.Helper()
 	p := filepath.Join(t.TempDir(), name)

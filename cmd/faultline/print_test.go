@@ -15,11 +15,7 @@ import (
 // figure.png is the screen figure as before.
 func TestRenderPrintFigure(t *testing.T) {
 	dir := t.TempDir()
-	sc := filepath.Join(dir, "s.json")
-	os.WriteFile(sc, []byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
-  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01},
-  "foil": {"thickness_nm": 50},
-  "image": {"width_nm": 40, "height_nm": 20, "pixels": [16, 8]}}`), 0o644)
+	sc := writeFile(t, "s.json", perfectScene)
 	out := filepath.Join(dir, "out")
 	var stdout, stderr bytes.Buffer
 	if code := run(context.Background(), []string{"render", sc, "-o", out, "--figure-width-mm", "85", "--dpi", "300", "--figure-format", "svg"}, &stdout, &stderr); code != exitOK {
