@@ -86,12 +86,8 @@ func (p *Plan) files() []atomicfile.File {
 				}
 			}
 		}))
-		// Visibility against s at up to four thicknesses of the grid.
-		var series []figure.Series
-		for _, i := range coarseIdx(len(v.ThicknessNm), 4) {
-			series = append(series, figure.Series{Name: fmt.Sprintf("t = %.0f nm", v.ThicknessNm[i]), X: v.SPerNm, Y: v.V[i]})
-		}
-		fs = append(fs, plotFile("visibility.png", figure.Plot{Title: "Defect visibility (dark-field Michelson contrast)", XLabel: "s (1/nm)", YLabel: "visibility", Y: figure.YUnit, Series: series}))
+		vis, _ := p.VisibilityPlot()
+		fs = append(fs, plotFile("visibility.png", vis))
 	}
 	if len(p.WeakBeam) > 0 {
 		fs = append(fs, csvFile("weakbeam.csv", func(w io.Writer) {
@@ -101,19 +97,8 @@ func (p *Plan) files() []atomicfile.File {
 					num(x.MeasuredSepNm), num(x.ProjectedSepNm), num(x.SeparationNm))
 			}
 		}))
-		var s, pk, wd, ms, ps []float64
-		for _, x := range p.WeakBeam {
-			s = append(s, x.SPerNm)
-			pk = append(pk, math.Abs(x.PeakNm))
-			wd = append(wd, x.WidthNm)
-			ms = append(ms, x.MeasuredSepNm)
-			ps = append(ps, x.ProjectedSepNm)
-		}
-		series := []figure.Series{{Name: "|peak − core|", X: s, Y: pk}, {Name: "peak width (FWHM)", X: s, Y: wd}}
-		if !math.IsNaN(p.WeakBeam[0].ProjectedSepNm) {
-			series = append(series, figure.Series{Name: "peak separation", X: s, Y: ms}, figure.Series{Name: "partials' separation", X: s, Y: ps, Dashed: true})
-		}
-		fs = append(fs, plotFile("weakbeam.png", figure.Plot{Title: "Weak-beam image at g(ng), n = 2…" + fmt.Sprint(p.WeakBeam[len(p.WeakBeam)-1].N), XLabel: "s (1/nm)", YLabel: "nm", Series: series}))
+		wb, _ := p.WeakBeamPlot()
+		fs = append(fs, plotFile("weakbeam.png", wb))
 	}
 	if t := p.GB; t != nil {
 		fs = append(fs, csvFile("gb.csv", func(w io.Writer) { t.writeCSV(w) }))

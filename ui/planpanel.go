@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"image"
+	"image/color"
 	"math"
 	"strings"
 	"sync"
@@ -36,6 +37,8 @@ type planPanel struct {
 	stop    *widget.Button
 	thick   *plotView
 	rocking *plotView
+	vis     *plotView // the defects' visibility against s
+	weak    *plotView // the weak-beam peak against s
 	suggest *widget.Label
 	table   *widget.Label
 	notes   *widget.Label
@@ -64,8 +67,11 @@ func planPanelObject(ws *Workspace) fyne.CanvasObject {
 	pp.stop.Hide()
 	pp.thick = newPlotView(func(t float64) { pp.pick("foil.thickness_nm", "thickness", t, "nm") })
 	pp.rocking = newPlotView(func(s float64) { pp.pick("diffraction.s_per_nm", "s", s, "/nm") })
-	pp.thick.Hide()
-	pp.rocking.Hide()
+	pp.vis = newPlotView(func(s float64) { pp.pick("diffraction.s_per_nm", "s", s, "/nm") })
+	pp.weak = newPlotView(func(s float64) { pp.pick("diffraction.s_per_nm", "s", s, "/nm") })
+	for _, v := range []*plotView{pp.thick, pp.rocking, pp.vis, pp.weak} {
+		v.Hide()
+	}
 	ws.ctrl.OnBuilt(func(st *scene.Setup, _ error) { pp.markScene(st) })
 	pp.suggest = widget.NewLabel("")
 	pp.suggest.Wrapping = fyne.TextWrapWord
@@ -75,7 +81,7 @@ func planPanelObject(ws *Workspace) fyne.CanvasObject {
 	pp.notes.Wrapping = fyne.TextWrapWord
 	pp.notes.TextStyle = fyne.TextStyle{Italic: true}
 
-	intro := widget.NewLabel("Plans the imaging conditions of the scene as the command “faultline plan” does: thickness fringes and rocking curve of the perfect crystal, the defects' visibility and the weak-beam conditions, and with candidate Burgers-vector families the g·b table. Click a curve to set that thickness or s.")
+	intro := widget.NewLabel("Plans the imaging conditions of the scene as the command “faultline plan” does: thickness fringes and rocking curve of the perfect crystal, the defects' visibility and the weak-beam conditions, and with candidate Burgers-vector families the g·b table. Click a curve to set the thickness or s under the pointer.")
 	intro.Wrapping = fyne.TextWrapWord
 	intro.TextStyle = fyne.TextStyle{Italic: true}
 	return container.NewVScroll(container.NewPadded(container.NewVBox(
@@ -84,7 +90,7 @@ func planPanelObject(ws *Workspace) fyne.CanvasObject {
 		container.NewHBox(pp.run),
 		container.NewBorder(nil, nil, nil, pp.stop, pp.bar),
 		pp.status, pp.errl,
-		pp.thick, pp.rocking,
+		pp.thick, pp.rocking, pp.vis, pp.weak,
 		pp.suggest,
 		container.NewHScroll(pp.table),
 		pp.notes,
@@ -157,6 +163,20 @@ func (pp *planPanel) show(p *plan.Plan, took time.Duration) {
 	}
 	pp.thick.Show()
 	pp.rocking.Show()
+	for _, c := range []struct {
+		v  *plotView
+		pl func() (figure.Plot, bool)
+	}{{pp.vis, p.VisibilityPlot}, {pp.weak, p.WeakBeamPlot}} {
+		pl, ok := c.pl()
+		if !ok {
+			c.v.Hide()
+			continue
+		}
+		if err := c.v.set(pl); err != nil {
+			setError(pp.errl, err.Error())
+		}
+		c.v.Show()
+	}
 	pp.markScene(pp.ws.ctrl.Setup())
 	var b strings.Builder
 	b.WriteString("Suggested conditions:\n")
@@ -179,7 +199,7 @@ func (pp *planPanel) show(p *plan.Plan, took time.Duration) {
 		n = append(n, "Not computed: "+s+".")
 	}
 	pp.notes.SetText(strings.Join(n, "\n"))
-	pp.status.SetText(fmt.Sprintf("Planned in %.1f s (%s). Click the thickness curve to set the foil's thickness, the rocking curve to set s (the rocking curve is for t = %g nm).",
+	pp.status.SetText(fmt.Sprintf("Planned in %.1f s (%s). Click the thickness curve to set the foil's thickness, any curve against s to set s (the rocking curve is for t = %g nm).",
 		took.Seconds(), p.Setup.Describe(), p.Setup.Problem.ThicknessNm))
 }
 
@@ -190,6 +210,8 @@ func (pp *planPanel) markScene(st *scene.Setup) {
 	}
 	pp.thick.setMark(st.Problem.ThicknessNm)
 	pp.rocking.setMark(st.SPerNm)
+	pp.vis.setMark(st.SPerNm)
+	pp.weak.setMark(st.SPerNm)
 }
 
 // pick sets the scene field path to the value v picked on a curve.
@@ -267,7 +289,7 @@ func (v *plotView) draw(s fyne.Size) error {
 	if lo, hi, ok := xSpan(pl); ok && v.mark >= lo && v.mark <= hi {
 		ylo, yhi := pl.YRange()
 		pl.Series = append(append([]figure.Series(nil), pl.Series...), figure.Series{Name: "this scene", X: []float64{v.mark, v.mark}, Y: []float64{ylo, yhi},
-			Colour: figure.PlotColours[2], Dashed: true})
+			Colour: sceneMarkColour, Dashed: true})
 	}
 	img, f, err := pl.Framed(w, h, 96*float64(scale))
 	if err != nil {
@@ -301,6 +323,10 @@ func (v *plotView) Tapped(ev *fyne.PointEvent) {
 		v.onPick(x)
 	}
 }
+
+// sceneMarkColour is the dashed line marking the scene's value: purple,
+// apart from every colour of figure.PlotColours.
+var sceneMarkColour = color.NRGBA{0x98, 0x30, 0xb0, 0xff}
 
 // xSpan returns the smallest and largest x of pl's series.
 func xSpan(pl figure.Plot) (lo, hi float64, ok bool) {

@@ -68,6 +68,16 @@ func TestPlanPanelCurvesAndPick(t *testing.T) {
 	if s := ws.ctrl.Scene().Diffraction.SPerNm; s == nil || math.Abs(*s-wantS) > tolS {
 		t.Errorf("tap at s = %g /nm set s to %v (a pixel is %g /nm)", wantS, s, tolS)
 	}
+	// The visibility curve (the test scene has a dislocation) also sets s.
+	if !pp.vis.Visible() || !pp.weak.Visible() {
+		t.Fatal("the visibility or weak-beam curve is not shown for a scene with a dislocation")
+	}
+	pp.vis.Resize(fyne.NewSize(420, 260))
+	wantV := res.Visibility.SPerNm[len(res.Visibility.SPerNm)*2/3]
+	tolV := tapAtValue(t, pp.vis, wantV)
+	if s := ws.ctrl.Scene().Diffraction.SPerNm; s == nil || math.Abs(*s-wantV) > tolV {
+		t.Errorf("tap at s = %g /nm on the visibility curve set s to %v (a pixel is %g /nm)", wantV, s, tolV)
+	}
 	// A tap left of the axes changes nothing.
 	before := ws.ctrl.Scene().Foil.ThicknessNm
 	test.TapAt(pp.thick, fyne.NewPos(2, 100))
