@@ -165,25 +165,10 @@ func (ws *Workspace) askPath(title, suggest, ext string, then func(path string))
 	if ws.win == nil {
 		return
 	}
-	folder := widget.NewEntry()
-	folder.SetText(filepath.Dir(suggest))
+	folder, folderRow := ws.folderField(filepath.Dir(suggest))
 	name := widget.NewEntry()
 	name.SetText(filepath.Base(suggest))
-	browse := widget.NewButton("Choose…", func() {
-		fd := dialog.NewFolderOpen(func(u fyne.ListableURI, err error) {
-			if err == nil && u != nil {
-				folder.SetText(u.Path())
-			}
-		}, ws.win)
-		if l, err := storage.ListerForURI(storage.NewFileURI(folder.Text)); err == nil {
-			fd.SetLocation(l)
-		}
-		fd.Show()
-	})
-	items := []*widget.FormItem{
-		widget.NewFormItem("Folder", container.NewBorder(nil, nil, nil, browse, folder)),
-		widget.NewFormItem("File name", name),
-	}
+	items := []*widget.FormItem{folderRow, widget.NewFormItem("File name", name)}
 	d := dialog.NewForm(title, "Save", "Cancel", items, func(ok bool) {
 		if !ok {
 			return
@@ -215,14 +200,11 @@ func (ws *Workspace) askPath(title, suggest, ext string, then func(path string))
 	d.Show()
 }
 
-// askFolder asks for a folder to write the files names(dir) into, and
-// asks before replacing any that exist.
-func (ws *Workspace) askFolder(title, suggest string, names func(dir string) []string, then func(dir string)) {
-	if ws.win == nil {
-		return
-	}
+// folderField is a form row holding a folder's path, typed or chosen with
+// the system's folder dialog (which starts at the typed folder).
+func (ws *Workspace) folderField(start string) (*widget.Entry, *widget.FormItem) {
 	folder := widget.NewEntry()
-	folder.SetText(suggest)
+	folder.SetText(start)
 	browse := widget.NewButton("Choose…", func() {
 		fd := dialog.NewFolderOpen(func(u fyne.ListableURI, err error) {
 			if err == nil && u != nil {
@@ -234,7 +216,17 @@ func (ws *Workspace) askFolder(title, suggest string, names func(dir string) []s
 		}
 		fd.Show()
 	})
-	items := []*widget.FormItem{widget.NewFormItem("Folder", container.NewBorder(nil, nil, nil, browse, folder))}
+	return folder, widget.NewFormItem("Folder", container.NewBorder(nil, nil, nil, browse, folder))
+}
+
+// askFolder asks for a folder to write the files names(dir) into, and
+// asks before replacing any that exist.
+func (ws *Workspace) askFolder(title, suggest string, names func(dir string) []string, then func(dir string)) {
+	if ws.win == nil {
+		return
+	}
+	folder, folderRow := ws.folderField(suggest)
+	items := []*widget.FormItem{folderRow}
 	d := dialog.NewForm(title, "Save", "Cancel", items, func(ok bool) {
 		if !ok {
 			return
