@@ -9,6 +9,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"strings"
 
 	"faultline/crystal"
 	"faultline/figure"
@@ -147,7 +148,32 @@ func Caption(st *scene.Setup) figure.Caption {
 		fmt.Sprintf("%s   B = [%s]   %s   t = %g nm   %g kV", material, Indices(d.Beam), dev, st.Problem.ThicknessNm, st.VoltageKV),
 		fmt.Sprintf("%s   %s", xi, model),
 	}
+	if def := defectsLine(sc.Defects); def != "" {
+		lines = append(lines, def)
+	}
 	return figure.Caption{G: "g = " + Indices(d.G), Lines: lines}
+}
+
+// captionDefects is the number of defects a caption lists by name.
+const captionDefects = 6
+
+// defectsLine lists the scene's defects for a caption, each as its list
+// line in the window (type, b, line or normal, position with its depth):
+// "defects: 1 dislocation  b 1/2[1 1 0]  line [1 1 1]  at_nm (0, 0, 60) nm;
+// 2 …". Past captionDefects it counts the rest.
+func defectsLine(ds []scene.Defect) string {
+	if len(ds) == 0 {
+		return ""
+	}
+	var parts []string
+	for i := range ds {
+		if i == captionDefects {
+			parts = append(parts, fmt.Sprintf("and %d more", len(ds)-i))
+			break
+		}
+		parts = append(parts, fmt.Sprintf("%d %s", i+1, ds[i].Summary()))
+	}
+	return "defects: " + strings.Join(parts, "; ")
 }
 
 // Panels of a figure.

@@ -100,3 +100,26 @@ func TestScaleToRange(t *testing.T) {
 		t.Error("a flat profile was scaled")
 	}
 }
+
+// A figure's caption lists the defects (type, b, line or normal, position
+// with depth) as well as the conditions, so the figure can be reproduced.
+func TestCaptionListsDefects(t *testing.T) {
+	sc, err := scene.Parse([]byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [2, 0, 0], "beam": [0, 0, 1], "s_per_nm": 0.01}, "foil": {"thickness_nm": 80},
+	  "defects": [{"type": "dislocation", "b": "1/2[1 1 0]", "line": [1, -1, 0], "at_nm": [0, 0, 40]},
+	              {"type": "loop", "b": "1/2[1 0 1]", "normal": [1, 0, 1], "radius_nm": 5, "at_nm": [10, 0, 30]}],
+	  "image": {"width_nm": 40, "height_nm": 40, "pixels": [8, 8]}}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := scene.Build(sc, ".")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := strings.Join(Caption(st).Lines, "\n")
+	for _, want := range []string{"defects: 1 dislocation", "1/2[1 1 0]", "line [1 -1 0]", "(0, 0, 40) nm", "2 loop", "normal [1 0 1]", "(10, 0, 30) nm"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("caption lacks %q:\n%s", want, text)
+		}
+	}
+}

@@ -245,7 +245,7 @@ var defectSpecs = []DefectSpec{
 			radiusField(15),
 			atField,
 		},
-		List: []string{"nature", "b", "radius_nm", "at_nm"},
+		List: []string{"nature", "b", "normal", "radius_nm", "at_nm"},
 	},
 	{
 		Type: "cavity", Noun: "a cavity",
