@@ -23,6 +23,9 @@ func template(kind string, tNm float64) scene.Defect {
 	return spec.Template(tNm)
 }
 
+// listRows is the number of defects the list shows at once.
+const listRows = 4
+
 // defectsPanel is the editor of the scene's defects.
 type defectsPanel struct {
 	ws        *Workspace
@@ -123,7 +126,11 @@ func defectsPanelObject(ws *Workspace) fyne.CanvasObject {
 		widget.NewLabelWithStyle("Defects in the foil", fyne.TextAlignLeading, fyne.TextStyle{Bold: true}),
 		buttons,
 	)
-	list := container.New(minHeight(170), dp.List)
+	// The list shows a whole number of rows, so that scrolling to the
+	// last defect never leaves a row cut off at the top.
+	row := container.NewBorder(nil, nil, nil, widget.NewIcon(theme.WarningIcon()), widget.NewLabel("template defect text")).MinSize().Height
+	sep := theme.SeparatorThicknessSize()
+	list := container.New(minHeight(listRows*(row+sep)-sep), dp.List)
 	editor := container.NewVScroll(container.NewPadded(container.NewVBox(dp.Header, general, dp.Form, dp.Derived)))
 	return container.NewBorder(container.NewVBox(top, list, widget.NewSeparator()), nil, nil, nil, editor)
 }

@@ -8,6 +8,7 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
 	"faultline/scene"
@@ -23,9 +24,13 @@ type statusLine struct {
 	Timing   *widget.Label
 	Message  *widget.Label
 	Readings *widget.Label
+	box      *container.Scroll // holds Readings
 
 	preview time.Duration // latency of the last preview
 }
+
+// readingLines is the height of the readings box, in lines of text.
+const readingLines = 3
 
 const (
 	startText = "Starting…"
@@ -36,7 +41,13 @@ const (
 func statusPanel(ws *Workspace) fyne.CanvasObject {
 	s := &statusLine{Progress: widget.NewProgressBar(), Timing: widget.NewLabel(startText), Message: widget.NewLabel(""), Readings: widget.NewLabel("")}
 	s.Readings.Wrapping = fyne.TextWrapWord
-	s.Readings.Hide()
+	// The readings scroll in a box of readingLines lines, so that adding a
+	// defect does not shrink the images above.
+	readings := container.NewVScroll(s.Readings)
+	lineH := fyne.MeasureText("Mg", theme.TextSize(), fyne.TextStyle{}).Height + theme.LineSpacing()
+	readings.SetMinSize(fyne.NewSize(0, readingLines*lineH+2*theme.InnerPadding()))
+	readings.Hide()
+	s.box = readings
 	ws.status = s
 	s.Progress.Min, s.Progress.Max = 0, 1
 	s.Progress.TextFormatter = func() string { return fmt.Sprintf("%.0f %%", 100*s.Progress.Value) }
@@ -59,15 +70,15 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 			s.Progress.SetValue(0)
 			s.Timing.SetText(staleText)
 			s.Readings.SetText("")
-			s.Readings.Hide()
+			s.box.Hide()
 			return
 		}
 		if lines := st.ReadingLines(); len(lines) > 0 {
 			s.Readings.SetText(strings.Join(lines, "\n"))
-			s.Readings.Show()
+			s.box.Show()
 		} else {
 			s.Readings.SetText("")
-			s.Readings.Hide()
+			s.box.Hide()
 		}
 		// Warnings about the conditions (other beams excited, an opaque
 		// foil, defects that cannot show, residual contrast): notes, not
@@ -106,7 +117,7 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 	})
 	bar := container.NewGridWrap(fyne.NewSize(160, s.Progress.MinSize().Height), s.Progress)
 	line := container.NewBorder(nil, nil, container.NewHBox(bar, s.Timing), nil, s.Message)
-	return container.NewVBox(s.Readings, line)
+	return container.NewVBox(readings, line)
 }
 
 // ms writes a duration in milliseconds, or seconds from 10 s on.

@@ -65,10 +65,32 @@ func NewWorkspace(a fyne.App, win fyne.Window, post func(func())) *Workspace {
 	ws.board.onShown = ws.revealError
 
 	centre := container.NewBorder(nil, plot, nil, nil, images)
-	split := container.NewHSplit(ws.tabs, centre)
-	split.Offset = 0.3
+	// The panels keep the width the divider gives them: a wider form
+	// (another defect type, say) must not move the divider.
+	split := container.NewHSplit(container.New(anyWidth{}, ws.tabs), centre)
+	split.Offset = 0.44
 	ws.content = container.NewBorder(nil, container.NewVBox(widget.NewSeparator(), status), nil, nil, split)
 	return ws
+}
+
+// anyWidth lays its objects out at the size it is given and asks for no
+// width of its own, only their height: what it holds never pushes a
+// divider aside.
+type anyWidth struct{}
+
+func (anyWidth) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+	for _, o := range objs {
+		o.Move(fyne.NewPos(0, 0))
+		o.Resize(size)
+	}
+}
+
+func (anyWidth) MinSize(objs []fyne.CanvasObject) fyne.Size {
+	var h float32
+	for _, o := range objs {
+		h = max(h, o.MinSize().Height)
+	}
+	return fyne.NewSize(0, h)
 }
 
 // Controller returns the workspace's controller.
