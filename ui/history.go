@@ -64,30 +64,22 @@ func (c *Controller) CanRedo() bool { return len(c.hist.redo) > 0 }
 // Undo puts back the scene as it was before the last change (changes of
 // the same fields in quick succession count as one), rebuilds it and
 // renders it. It reports whether there was a change to undo.
-func (c *Controller) Undo() bool {
-	h := &c.hist
-	if len(h.undo) == 0 {
-		return false
-	}
-	prev := h.undo[len(h.undo)-1]
-	h.undo = h.undo[:len(h.undo)-1]
-	h.redo = append(h.redo, c.sc)
-	h.lastKey = ""
-	c.restore(prev)
-	return true
-}
+func (c *Controller) Undo() bool { return c.step(&c.hist.undo, &c.hist.redo) }
 
 // Redo makes the last undone change again.
-func (c *Controller) Redo() bool {
-	h := &c.hist
-	if len(h.redo) == 0 {
+func (c *Controller) Redo() bool { return c.step(&c.hist.redo, &c.hist.undo) }
+
+// step moves back along one list of scenes (undo or redo), pushing the
+// current scene onto the other, and restores the scene it took.
+func (c *Controller) step(from, to *[]*scene.Scene) bool {
+	if len(*from) == 0 {
 		return false
 	}
-	next := h.redo[len(h.redo)-1]
-	h.redo = h.redo[:len(h.redo)-1]
-	h.undo = append(h.undo, c.sc)
-	h.lastKey = ""
-	c.restore(next)
+	prev := (*from)[len(*from)-1]
+	*from = (*from)[:len(*from)-1]
+	*to = append(*to, c.sc)
+	c.hist.lastKey = ""
+	c.restore(prev)
 	return true
 }
 
