@@ -8,7 +8,9 @@ import (
 	"image"
 	"io"
 	"math"
+	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"faultline/crystal"
@@ -340,15 +342,76 @@ const (
 // (atomicfile.WriteSet): a failure, or a cancelled ctx, leaves the
 // directory as it was. A failure to write is an *atomicfile.Error naming
 // the directory or file.
-func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, sceneJSON []byte, o Options) error {
+//
+// Once the set is written, the files an earlier render may have left in
+// dir under other options (beam_N.tiff, bf.mrc and df.mrc, figure.pdf and
+// figure.svg) that this one did not write are removed, so the directory
+// never mixes two renders; their names are returned.
+func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, sceneJSON []byte, o Options) ([]string, error) {
+	files, err := renderFiles(st, im, sceneJSON, o)
+	if err != nil {
+		return nil, err
+	}
+	if err := atomicfile.WriteSet(ctx, dir, files); err != nil {
+		return nil, err
+	}
+	return removeStale(dir, files)
+}
+
+// removeStale removes from dir the outputs of a render (see WriteAll)
+// that are not among files, and returns their names.
+func removeStale(dir string, files []atomicfile.File) ([]string, error) {
+	written := map[string]bool{}
+	for _, f := range files {
+		written[f.Name] = true
+	}
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, err
+	}
+	var removed []string
+	for _, e := range entries {
+		name := e.Name()
+		if written[name] || !e.Type().IsRegular() || !renderOutput(name) {
+			continue
+		}
+		if err := os.Remove(filepath.Join(dir, name)); err != nil {
+			return removed, fmt.Errorf("removing %s of an earlier render: %w", name, err)
+		}
+		removed = append(removed, name)
+	}
+	return removed, nil
+}
+
+// renderOutput reports whether name is a file WriteAll writes under some
+// options.
+func renderOutput(name string) bool {
+	switch name {
+	case "bf.mrc", "df.mrc", "figure." + figure.PaperPDF, "figure." + figure.PaperSVG:
+		return true
+	}
+	n, ok := strings.CutPrefix(name, "beam_")
+	if !ok {
+		return false
+	}
+	n, ok = strings.CutSuffix(n, ".tiff")
+	if !ok {
+		return false
+	}
+	_, err := strconv.Atoi(n)
+	return err == nil
+}
+
+// renderFiles encodes every file of WriteAll.
+func renderFiles(st *scene.Setup, im *sim.Image, sceneJSON []byte, o Options) ([]atomicfile.File, error) {
 	text := map[string]string{KeyScene: string(sceneJSON), KeySoftware: "Faultline"}
 	bf, df, err := Grays(im, o.Mapping)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	tiffs, err := BeamTIFFs(im, sceneJSON)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	files := []atomicfile.File{
 		{Name: FileBFPNG, Encode: func(w io.Writer) error { return figure.EncodePNG(w, bf, text) }},
@@ -359,7 +422,7 @@ func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, s
 	if o.Print == nil {
 		fig, err := Figure(st, im, o)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		files = append(files, atomicfile.File{Name: FileFigure, Encode: func(w io.Writer) error { return figure.EncodePNG(w, fig, text) }})
 	} else {
@@ -372,7 +435,7 @@ func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, s
 		for _, f := range formats {
 			var buf bytes.Buffer
 			if err := PaperFigure(&buf, f, st, im, o, *o.Print, text); err != nil {
-				return err
+				return nil, err
 			}
 			b := buf.Bytes()
 			files = append(files, atomicfile.File{Name: "figure." + f, Encode: func(w io.Writer) error { _, err := w.Write(b); return err }})
@@ -382,7 +445,7 @@ func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, s
 		g := im.Grid
 		px, err := figure.PixelSizeNm(g)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		meta := figure.TIFFMeta{NmPerPx: px, Scene: string(sceneJSON)}
 		for k, n := range im.Beams {
@@ -397,11 +460,11 @@ func WriteAll(ctx context.Context, dir string, st *scene.Setup, im *sim.Image, s
 	if o.MRC {
 		mrcs, err := BeamMRCs(im)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		files = append(files, atomicfile.File{Name: "bf.mrc", Encode: mrcs[0]}, atomicfile.File{Name: "df.mrc", Encode: mrcs[1]})
 	}
-	return atomicfile.WriteSet(ctx, dir, files)
+	return files, nil
 }
 
 // TIFFNames are the paths WriteTIFFs writes in dir.

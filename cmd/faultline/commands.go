@@ -183,7 +183,8 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if err != nil {
 		return err
 	}
-	if err := export.WriteAll(ctx, *out, st, im, data, o); err != nil {
+	removed, err := export.WriteAll(ctx, *out, st, im, data, o)
+	if err != nil {
 		if errors.Is(err, context.Canceled) {
 			return err
 		}
@@ -192,6 +193,9 @@ func cmdRender(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	// Notes (defaults applied, values derived) only once all went well, so
 	// a failure is the one line on stderr.
 	printNotes(stderr, st)
+	if len(removed) > 0 {
+		fmt.Fprintf(stderr, "note: removed %s, left in %s by an earlier render with other options\n", strings.Join(removed, ", "), *out)
+	}
 	// What a microscopist would read from each defect's image.
 	for _, r := range st.ReadingLines() {
 		fmt.Fprintln(stderr, "reading: "+r)

@@ -478,6 +478,22 @@ func TestRenderAllBeams(t *testing.T) {
 	if !strings.Contains(stderr.String(), "warning: diffraction.weak_beam") {
 		t.Errorf("no weak-beam warning on stderr: %q", stderr.String())
 	}
+	// A later render into the same directory without --all-beams removes
+	// the beams of the earlier one and says so, so the directory never
+	// mixes two renders.
+	stdout.Reset()
+	stderr.Reset()
+	if code := run(context.Background(), []string{"render", sc, "-o", out}, &stdout, &stderr); code != exitOK {
+		t.Fatalf("second render: exit %d: %s", code, stderr.String())
+	}
+	for _, name := range []string{"beam_-2.tiff", "beam_-1.tiff", "beam_2.tiff"} {
+		if _, err := os.Stat(filepath.Join(out, name)); err == nil {
+			t.Errorf("%s of the earlier render is still there", name)
+		}
+	}
+	if !strings.Contains(stderr.String(), "note: removed beam_-1.tiff, beam_-2.tiff, beam_2.tiff") {
+		t.Errorf("no note of the removed files on stderr: %q", stderr.String())
+	}
 }
 
 // plan writes the four curves with their headers and plots, and prints

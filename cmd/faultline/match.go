@@ -23,7 +23,7 @@ func cmdIdentify(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	fs := flag.NewFlagSet("identify", flag.ContinueOnError)
 	asJSON := fs.Bool("json", false, "print the ranking as JSON")
 	out := fs.String("o", "", "directory for the contact sheet identify.png")
-	path, err := parse(fs, args, stdout)
+	path, err := parseArg(fs, args, stdout, "set file")
 	if err != nil {
 		return err
 	}

@@ -30,7 +30,7 @@ func cmdSweep(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	shards := fs.Int("shards", 0, "number of shards, with JOB_COMPLETION_INDEX")
 	workers := fs.Int("workers", 0, "jobs run at once (0: all cores)")
 	force := fs.Bool("force", false, "run a sweep of more than the maximum number of jobs")
-	path, err := parse(fs, args, stdout)
+	path, err := parseArg(fs, args, stdout, "sweep file")
 	if err != nil {
 		return err
 	}
@@ -57,7 +57,7 @@ func cmdSweep(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 
 func cmdSweepMerge(args []string, stdout io.Writer) error {
 	fs := newFlags("sweep merge")
-	dir, err := parse(fs, args, stdout)
+	dir, err := parseArg(fs, args, stdout, "sweep output directory")
 	if err != nil {
 		return err
 	}
@@ -85,7 +85,7 @@ func cmdSweepSlurm(ctx context.Context, args []string, stdout io.Writer) error {
 	cpus := fs.Int("cpus-per-task", 0, "CPUs (and workers) per task")
 	submit := fs.Bool("submit", false, "submit the array and the merge job with sbatch")
 	force := fs.Bool("force", false, "allow a sweep of more than the maximum number of jobs")
-	path, err := parse(fs, args, stdout)
+	path, err := parseArg(fs, args, stdout, "sweep file")
 	if err != nil {
 		return err
 	}

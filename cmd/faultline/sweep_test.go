@@ -61,6 +61,10 @@ func TestSweepBadInput(t *testing.T) {
 			`error: --time: "1h": write HH:MM:SS`},
 		{"merge of no sweep", []string{"sweep", "merge", dir},
 			"error: " + dir + ": no sweep.json"},
+		{"merge of two directories", []string{"sweep", "merge", dir, dir},
+			"error: sweep merge: give one sweep output directory (got 2 arguments;"},
+		{"sweep of no file", []string{"sweep", "-o", dir + "/j"},
+			"error: sweep: give one sweep file (got 0 arguments;"},
 	} {
 		var stdout, stderr bytes.Buffer
 		code := run(context.Background(), c.args, &stdout, &stderr)
