@@ -507,11 +507,48 @@ func cloneScene(sc *scene.Scene) *scene.Scene {
 }
 
 // hash is the sha256 of the sweep file (as decoded, so formatting does not
-// count) and the base scene.
+// count), the base scene, and the bytes of every CIF file they name (the
+// base scene's crystal.cif and the values of a crystal.cif axis), so that
+// editing a CIF file makes a different sweep. A CIF that cannot be read
+// counts by its error; its jobs then fail with it.
 func (sw *Sweep) hash() string {
 	h := sha256.New()
 	f, _ := json.Marshal(sw.File)
 	s, _ := json.Marshal(sw.Base)
 	fmt.Fprintf(h, "faultline-sweep\x00%d\x00%s\x00%d\x00%s", len(f), f, len(s), s)
+	for _, p := range sw.cifPaths() {
+		data, err := os.ReadFile(p)
+		if err != nil {
+			data = []byte("unreadable: " + err.Error())
+		}
+		sum := sha256.Sum256(data)
+		fmt.Fprintf(h, "\x00cif\x00%d\x00%s\x00%x", len(p), p, sum)
+	}
 	return hex.EncodeToString(h.Sum(nil))
+}
+
+// cifPaths lists the CIF files the sweep's scenes name, resolved against
+// SceneDir, in a fixed order.
+func (sw *Sweep) cifPaths() []string {
+	var names []string
+	if sw.Base != nil && sw.Base.Crystal.CIF != "" {
+		names = append(names, sw.Base.Crystal.CIF)
+	}
+	for _, a := range sw.File.Axes {
+		if a.Path != "crystal.cif" {
+			continue
+		}
+		for _, v := range a.Values {
+			var name string
+			if json.Unmarshal(v, &name) == nil && name != "" {
+				names = append(names, name)
+			}
+		}
+	}
+	for i, n := range names {
+		if !filepath.IsAbs(n) {
+			names[i] = filepath.Join(sw.SceneDir, n)
+		}
+	}
+	return names
 }

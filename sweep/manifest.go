@@ -138,7 +138,7 @@ func OpenDir(dir string) (*Sweep, error) {
 		return nil, err
 	}
 	if sw.Hash != p.Hash {
-		return nil, errf("", "%s: the plan's sweep_sha256 does not match its content (edited by hand?)", filepath.Join(dir, PlanName))
+		return nil, errf("", "%s: the plan's sweep_sha256 does not match the sweep, its scene and the CIF files they name (one edited since the sweep ran?)", filepath.Join(dir, PlanName))
 	}
 	return sw, nil
 }

@@ -393,3 +393,44 @@ func TestShotNoiseStatistics(t *testing.T) {
 func renderForTest(st *scene.Setup) (*sim.Image, error) {
 	return export.Render(context.Background(), st, sim.Options{})
 }
+
+// The sweep's hash covers the bytes of the CIF files its scenes name: an
+// edited CIF makes a different sweep, so a restart does not mistake the
+// old jobs for done.
+func TestHashCoversCIF(t *testing.T) {
+	dir := t.TempDir()
+	cif, err := os.ReadFile("../crystal/testdata/nacl.cif")
+	if err != nil {
+		t.Fatal(err)
+	}
+	write := func(name string, data []byte) {
+		if err := os.WriteFile(filepath.Join(dir, name), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	write("a.cif", cif)
+	write("b.cif", cif)
+	sc := &scene.Scene{Crystal: scene.Crystal{CIF: "a.cif"}}
+	f := File{Version: 1, Scene: "base.json", Combine: "zip", Outputs: []string{"tiff"},
+		Axes: []Axis{{Path: "crystal.cif", Values: []json.RawMessage{json.RawMessage(`"b.cif"`)}}}}
+	hash := func() string {
+		sw, err := expand(f, sc, dir, false)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sw.Hash
+	}
+	h0 := hash()
+	if hash() != h0 {
+		t.Fatal("the hash of an unchanged sweep changed")
+	}
+	write("a.cif", append(append([]byte(nil), cif...), "\n# edited\n"...))
+	h1 := hash()
+	if h1 == h0 {
+		t.Error("editing the base scene's CIF left the sweep's hash unchanged")
+	}
+	write("b.cif", append(append([]byte(nil), cif...), "\n# edited\n"...))
+	if hash() == h1 {
+		t.Error("editing an axis's CIF left the sweep's hash unchanged")
+	}
+}
