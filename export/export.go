@@ -96,6 +96,22 @@ func Replay(ctx context.Context, s *sim.Samples, st *scene.Setup, opt sim.Option
 	if !s.Serves(st.Problem) {
 		return nil, fmt.Errorf("replay: the samples do not serve this setup (%w)", sim.ErrReplayRange)
 	}
+	return replay(ctx, s, st, opt)
+}
+
+// ReplaySameGeometry is Replay for a setup built by another scene.Builder
+// from a scene whose crystal, g, beam, frame, defects and image grid are
+// those the samples were recorded with (its field is an equal value, not
+// the same one; see sim.Samples.ServesGeometry). The caller vouches for
+// that; the rest is checked.
+func ReplaySameGeometry(ctx context.Context, s *sim.Samples, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
+	if !s.ServesGeometry(st.Problem) {
+		return nil, fmt.Errorf("replay: the samples do not serve this setup (%w)", sim.ErrReplayRange)
+	}
+	return replay(ctx, s, st, opt)
+}
+
+func replay(ctx context.Context, s *sim.Samples, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
 	b := st.Scene.Image.BlurNm
 	if b != nil {
 		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {

@@ -13,8 +13,10 @@ import (
 )
 
 // BenchmarkSweepJobs runs a 16-job sweep of 32×32 renders (the test
-// scene: a dislocation and a loop in Cu, two-beam) with 1 and 2 workers
-// and reports jobs per second, every job's files written and hashed.
+// scene: a dislocation and a loop in Cu, two-beam; thickness × s, so the
+// jobs replay one recording of the field samples) with 1 and 2 workers,
+// with the replay and with every job rendered directly, and reports jobs
+// per second, every job's files written and hashed.
 func BenchmarkSweepJobs(b *testing.B) {
 	const sweepText = `{"version": 1, "scene": "base.json", "axes": [
 	   {"path": "foil.thickness_nm", "values": [60, 80, 100, 120]},
@@ -22,8 +24,14 @@ func BenchmarkSweepJobs(b *testing.B) {
 	   {"path": "image.pixels", "values": [[32, 32]]}],
 	 "combine": "grid", "outputs": ["tiff", "png"], "labels": true}`
 	sw := load(b, sweepText)
-	for _, workers := range []int{1, 2} {
-		b.Run(fmt.Sprintf("workers=%d", workers), func(b *testing.B) {
+	defer func() { replayConditions = true }()
+	for _, c := range []struct {
+		workers int
+		replay  bool
+	}{{1, true}, {2, true}, {1, false}, {2, false}} {
+		b.Run(fmt.Sprintf("workers=%d/replay=%v", c.workers, c.replay), func(b *testing.B) {
+			replayConditions = c.replay
+			workers := c.workers
 			var total time.Duration
 			for i := 0; i < b.N; i++ {
 				dir := b.TempDir()

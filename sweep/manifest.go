@@ -32,6 +32,9 @@ type Record struct {
 	Error   string  `json:"error,omitempty"`
 	Seconds float64 `json:"seconds"`
 	Version string  `json:"version"`
+	// Replayed is true when the job's image was replayed from its
+	// group's field samples (see replay.go) rather than rendered.
+	Replayed bool `json:"replayed,omitempty"`
 }
 
 // FileRecord is one file a job wrote, relative to the job's directory.

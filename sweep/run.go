@@ -41,6 +41,8 @@ type Summary struct {
 	// verified before; Done ran now and succeeded; Failed ran now and
 	// failed.
 	Jobs, Skipped, Done, Failed int
+	// Replayed counts the jobs done now by replaying field samples.
+	Replayed int
 	// Failures are the records of the failed jobs, by k.
 	Failures []Record
 	Elapsed  time.Duration
@@ -86,6 +88,25 @@ func Run(ctx context.Context, sw *Sweep, dir string, opt RunOptions) (*Summary, 
 		}
 		todo = append(todo, k)
 	}
+	// Jobs that differ only in their conditions replay one group's field
+	// samples (see replay.go); each group's jobs run one after another.
+	plan := sw.planReplay()
+	if plan != nil {
+		first := map[string]int{}
+		for k := sw.Jobs - 1; k >= 0; k-- {
+			if s := plan.sig[k]; s != "" {
+				first[s] = k
+			}
+		}
+		group := func(k int) int {
+			if s := plan.sig[k]; s != "" {
+				return first[s]
+			}
+			return k
+		}
+		sort.SliceStable(todo, func(a, b int) bool { return group(todo[a]) < group(todo[b]) })
+	}
+	cache := newSampleCache(opt.Workers + 1)
 	mw, err := openManifest(mpath)
 	if err != nil {
 		return nil, err
@@ -118,7 +139,7 @@ func Run(ctx context.Context, sw *Sweep, dir string, opt RunOptions) (*Summary, 
 			// fields.
 			var b scene.Builder
 			for k := range jobs {
-				r, err := sw.runJob(ctx, &b, dir, k, opt.Shard, opt.Version)
+				r, err := sw.runJob(ctx, &b, plan, cache, dir, k, opt.Shard, opt.Version)
 				if err == nil {
 					err = mw.append(r)
 				}
@@ -134,6 +155,9 @@ func Run(ctx context.Context, sw *Sweep, dir string, opt RunOptions) (*Summary, 
 				finished++
 				if r.Status == StatusOK {
 					sum.Done++
+					if r.Replayed {
+						sum.Replayed++
+					}
 				} else {
 					sum.Failed++
 					sum.Failures = append(sum.Failures, r)
@@ -234,7 +258,7 @@ func restart(dir, mpath string, sw *Sweep, sh Shard) (map[int]bool, error) {
 // either absent or whole. A scene that is invalid, fails to build or
 // fails to render gives a failed record; only a failure to write (or a
 // cancelled context) is an error.
-func (sw *Sweep) runJob(ctx context.Context, b *scene.Builder, dir string, k int, sh Shard, version string) (Record, error) {
+func (sw *Sweep) runJob(ctx context.Context, b *scene.Builder, plan *replayPlan, cache *sampleCache, dir string, k int, sh Shard, version string) (Record, error) {
 	start := time.Now()
 	r := Record{K: k, Shard: sh.String(), Sweep: sw.Hash, Version: version}
 	fail := func(err error) (Record, error) {
@@ -252,7 +276,11 @@ func (sw *Sweep) runJob(ctx context.Context, b *scene.Builder, dir string, k int
 	if err != nil {
 		return fail(err)
 	}
-	im, err := export.Render(ctx, st, sim.Options{Workers: 1})
+	im, replayed, err := sw.replayJob(ctx, plan, cache, k, sc, st)
+	r.Replayed = replayed
+	if err == nil && !replayed {
+		im, err = export.Render(ctx, st, sim.Options{Workers: 1})
+	}
 	if err != nil {
 		if ctx.Err() != nil {
 			return r, ctx.Err()

@@ -14,6 +14,7 @@ import (
 	"testing"
 
 	"faultline/export"
+	"faultline/figure"
 	"faultline/scene"
 	"faultline/sim"
 )
@@ -432,5 +433,71 @@ func TestHashCoversCIF(t *testing.T) {
 	write("b.cif", append(append([]byte(nil), cif...), "\n# edited\n"...))
 	if hash() == h1 {
 		t.Error("editing an axis's CIF left the sweep's hash unchanged")
+	}
+}
+
+// Jobs that differ only in thickness and s (and a model, for some) are
+// replayed from one recording of their group's field samples, and every
+// job's image agrees with a fresh render of its scene within 1e-4 of the
+// incident beam (sim.DefaultTolerance's bound); jobs that differ in a
+// defect are rendered directly.
+func TestConditionJobsReplayed(t *testing.T) {
+	sw := load(t, `{"version": 1, "scene": "base.json", "axes": [
+	   {"path": "defects[1].radius_nm", "values": [4, 6]},
+	   {"path": "foil.thickness_nm", "values": [60, 100, 140]},
+	   {"path": "diffraction.s_per_nm", "values": [-0.01, 0.005, 0.02]}],
+	 "combine": "grid", "outputs": ["tiff"], "labels": false}`)
+	out := filepath.Join(t.TempDir(), "out")
+	sum, err := Run(context.Background(), sw, out, RunOptions{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sum.Done != 18 || sum.Replayed != 18 {
+		t.Errorf("%d jobs done, %d replayed; want 18 and 18 (two groups of nine)", sum.Done, sum.Replayed)
+	}
+	worst := 0.0
+	for k := 0; k < sw.Jobs; k++ {
+		sc, _, err := sw.Scene(k)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st, err := scene.Build(sc, sw.SceneDir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, err := export.Render(context.Background(), st, sim.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for b, name := range []string{"bf.tiff", "df.tiff"} {
+			f, err := os.Open(filepath.Join(out, JobDir(k), name))
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, _, _, err := figure.ReadFloatTIFF(f)
+			f.Close()
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, v := range got {
+				worst = math.Max(worst, math.Abs(float64(v)-want.Intensity[b][i]))
+			}
+		}
+	}
+	t.Logf("largest difference of a replayed job from a fresh render: %.2g", worst)
+	if worst > 1e-4 {
+		t.Errorf("a replayed job differs from a fresh render by %.3g", worst)
+	}
+
+	// A sweep that varies only a defect has no groups: every job renders.
+	sw = load(t, `{"version": 1, "scene": "base.json", "axes": [
+	   {"path": "defects[1].radius_nm", "values": [4, 6]}],
+	 "combine": "grid", "outputs": ["tiff"], "labels": false}`)
+	sum, err = Run(context.Background(), sw, filepath.Join(t.TempDir(), "geo"), RunOptions{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sum.Replayed != 0 {
+		t.Errorf("%d jobs of a defect-only sweep replayed", sum.Replayed)
 	}
 }

@@ -50,7 +50,7 @@ func cmdSweep(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	}
 	sum, err := sweep.Run(ctx, sw, *out, sweep.RunOptions{Shard: sh, Workers: *workers, Progress: stderr})
 	if sum != nil && err == nil {
-		fmt.Fprintf(stderr, "sweep: shard %s finished: %d jobs (%d done before, %d now) in %.1f s into %s\n", sh, sum.Jobs, sum.Skipped, sum.Done, sum.Elapsed.Seconds(), *out)
+		fmt.Fprintf(stderr, "sweep: shard %s finished: %d jobs (%d done before, %d now, %d of them replayed from shared field samples) in %.1f s into %s\n", sh, sum.Jobs, sum.Skipped, sum.Done, sum.Replayed, sum.Elapsed.Seconds(), *out)
 	}
 	return err
 }
