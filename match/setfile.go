@@ -101,7 +101,10 @@ func LoadSeries(path string) (*Series, []string, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	st, err := scene.Build(base, filepath.Dir(scenePath))
+	// One builder for the checks below: the material stage (crystal,
+	// elastic constants, Stroh solutions) is built once.
+	var builder scene.Builder
+	st, err := builder.Build(base, filepath.Dir(scenePath))
 	if err != nil {
 		return nil, nil, fmt.Errorf("scene: %w", err)
 	}
@@ -170,7 +173,7 @@ func LoadSeries(path string) (*Series, []string, error) {
 		if err != nil {
 			return nil, nil, fmt.Errorf("%s.diffraction: %w", at, err)
 		}
-		mst, err := scene.Build(sc, s.Dir)
+		mst, err := builder.Build(sc, s.Dir)
 		if err != nil {
 			return nil, nil, fmt.Errorf("%s: %w", at, err)
 		}
