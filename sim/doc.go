@@ -48,9 +48,13 @@
 // excitation error shifted by n β, and its transfer matrix is a closed-form
 // matrix exponential (the Bloch-wave solution of the perfect crystal); in a
 // perfect crystal the whole column is one such exponential. Where γ departs
-// from its chord by δ(z), the slab is advanced by the fourth-order
-// commutator-free Magnus integrator (Blanes & Moan 2006) with δ sampled at
-// the two Gauss–Legendre nodes. A jump of γ across a fault plane or the cut
+// from its chord by δ(z), the two-beam slab is advanced by the classical
+// fourth-order Magnus integrator (Iserles & Nørsett 1999; Blanes, Casas,
+// Oteo & Ros 2009), one 2×2 exponential per slab, summed as a power series
+// for short slabs, with δ sampled at the two Gauss–Legendre nodes; the mean
+// absorption is applied once per column; the many-beam row uses the
+// fourth-order commutator-free pair (Blanes & Moan 2006). A jump of γ
+// across a fault plane or the cut
 // of a dislocation (reported by a Jumper) is an exact phase factor
 // exp(2πi n Δγ); a cavity (reported by a Voider) is a slab of vacuum.
 //

@@ -3,7 +3,6 @@ package sim
 import (
 	"fmt"
 	"math"
-	"math/cmplx"
 )
 
 // TwoBeam is the two-beam dynamical model: the Howie–Whelan equations with
@@ -65,9 +64,19 @@ type twoBeamStepper struct {
 	s  float64
 	// invXi2 is 1/ξ_g².
 	invXi2 float64
+	// pending is the crystal depth (nm) whose mean absorption e^{−μh}
+	// has not yet been applied to the amplitudes (see Crystal).
+	pending float64
 }
 
-func (st *twoBeamStepper) Start(psi []complex128) { psi[0], psi[1] = 1, 0 }
+func (st *twoBeamStepper) Start(psi []complex128) {
+	psi[0], psi[1] = 1, 0
+	st.pending = 0
+}
+
+// maxPending bounds μ·pending before the pending mean absorption is
+// folded into the amplitudes, far from any overflow of the rest.
+const maxPending = 50
 
 // Crystal advances psi through a slab. With the chord of g·R taken out,
 // the column equations of the slab are dχ/dz = M(z) χ with
@@ -77,29 +86,106 @@ func (st *twoBeamStepper) Start(psi []complex128) { psi[0], psi[1] = 1, 0 }
 //
 // where β is the chord slope and δ the departure of g·R from the chord
 // (zero at both ends of the slab). For δ ≡ 0 the slab is exp(h·M), exact.
-// Otherwise the fourth-order commutator-free Magnus integrator
+// Otherwise the classical fourth-order Magnus integrator with the two
+// Gauss–Legendre nodes,
 //
-//	χ(h) = exp(h(α2 M1 + α1 M2)) · exp(h(α1 M1 + α2 M2)) · χ(0),
-//	α1,2 = 1/4 ± √3/6, M1,2 = M(h(1/2 ∓ √3/6))
+//	χ(h) = exp(Ω) χ(0),  Ω = h/2 (M1 + M2) + (√3 h²/12) [M2, M1],
+//	M1,2 = M(h(1/2 ∓ √3/6))
 //
-// is used (Blanes & Moan 2006, J. Comput. Appl. Math. 184, 13; Alvermann
-// & Fehske 2011, J. Comput. Phys. 230, 5930).
+// (Iserles & Nørsett 1999, Phil. Trans. R. Soc. A 357, 983; Blanes, Casas,
+// Oteo & Ros 2009, Phys. Rep. 470, 151, §5), one 2×2 exponential per
+// slab. With κ = 2π(s + β), b_k = q e_k, c_k = q ē_k, e_k = e^{2πiδ_k},
+//
+//	[M2, M1] = [ D                −iκ(b1 − b2) ]
+//	           [ iκ(c1 − c2)      −D           ],  D = b2 c1 − b1 c2,
+//
+// so Ω = h(−μ + iκ/2)·I + A with A traceless. The scalar part changes no
+// intensity but by e^{−2μh}: its phase is dropped and its absorption is
+// kept back (pending) and applied to the intensities once per column
+// (Intensities), so the slab is exp(A) = cosh√w·I + (sinh√w/√w)·A,
+// w = −det A, by coshSinhc.
 func (st *twoBeamStepper) Crystal(psi []complex128, h, slope, d1, d2 float64) {
 	kappa := 2 * math.Pi * (st.s + slope)
 	if d1 == 0 && d2 == 0 {
 		expm2Apply(psi, h, -st.mu, kappa, st.q, st.q)
 		return
 	}
-	// e^{−2πiδ} is the conjugate of e^{+2πiδ}: no division.
 	e1, e2 := expi(2*math.Pi*d1), expi(2*math.Pi*d2)
-	c1, c2 := cmplx.Conj(e1), cmplx.Conj(e2)
-	// α1 + α2 = 1/2 for each factor, hence h/2 with the weights doubled.
-	q1, q2 := st.q*complex(2*cf4a1, 0), st.q*complex(2*cf4a2, 0)
-	expm2Apply(psi, h/2, -st.mu, kappa, q1*e1+q2*e2, q1*c1+q2*c2)
-	expm2Apply(psi, h/2, -st.mu, kappa, q2*e1+q1*e2, q2*c1+q1*c2)
+	ep, em := e1+e2, e1-e2
+	hh := h / 2
+	kk := magnusK * h * h * kappa // (√3h²/12)·κ
+	// B = q(h/2·(e1+e2) − i k κ (e1−e2)), C the same with ē and +i.
+	B := st.q * complex(hh*real(ep)+kk*imag(em), hh*imag(ep)-kk*real(em))
+	C := st.q * complex(hh*real(ep)+kk*imag(em), -hh*imag(ep)+kk*real(em))
+	// D = q²(e2ē1 − e1ē2) = 2i q² Im(e2ē1).
+	im := imag(e2)*real(e1) - real(e2)*imag(e1)
+	q2 := st.q * st.q
+	dk := 2 * magnusK * h * h * im // (√3h²/12)·D = i·dk·q²
+	a := complex(-dk*imag(q2), dk*real(q2)-kappa*hh)
+	ch, sh := coshSinhc(a*a + B*C)
+	p0, p1 := psi[0], psi[1]
+	psi[0] = ch*p0 + sh*(a*p0+B*p1)
+	psi[1] = ch*p1 + sh*(C*p0-a*p1)
+	if st.pending += h; st.mu*st.pending > maxPending {
+		f := complex(math.Exp(-st.mu*st.pending), 0)
+		psi[0], psi[1] = psi[0]*f, psi[1]*f
+		st.pending = 0
+	}
 }
 
-// Weights of the fourth-order commutator-free Magnus integrator.
+// magnusK is √3/12, the weight of the commutator in Ω.
+var magnusK = math.Sqrt(3) / 12
+
+// seriesMaxW is the largest |w| for which coshSinhc sums power series.
+// The terms omitted after w⁹ sum to at most
+// Σ_{n≥10} 1.5ⁿ/(2n)! < 1.5¹⁰/20!·1.01 < 2.5e-17 for cosh√w and less for
+// sinh√w/√w, below the rounding of the sum (TestCoshSinhc).
+const seriesMaxW = 1.5
+
+// coshSeries and sinhcSeries are 1/(2n)! and 1/(2n+1)!, n = 0…9.
+var coshSeries, sinhcSeries = func() (c, s [10]float64) {
+	f := 1.0
+	for n := 0; n < 10; n++ {
+		if n > 0 {
+			f /= float64(2*n-1) * float64(2*n)
+		}
+		c[n] = f
+		s[n] = f / float64(2*n+1)
+	}
+	return
+}()
+
+// coshSinhc returns cosh√w and sinh(√w)/√w, entire functions of w (the
+// branch of the root does not matter). For |w| ≤ seriesMaxW they are
+// summed as power series by Horner's rule, with no square root, exponential
+// or sincos; otherwise with λ = √w = x + iy,
+//
+//	cosh λ = cosh x cos y + i sinh x sin y,
+//	sinh λ = sinh x cos y + i cosh x sin y,  1/λ = λ̄/|w|.
+func coshSinhc(w complex128) (ch, sh complex128) {
+	wr, wi := real(w), imag(w)
+	if wr*wr+wi*wi <= seriesMaxW*seriesMaxW {
+		cr, ci := coshSeries[9], 0.0
+		sr, si := sinhcSeries[9], 0.0
+		for n := 8; n >= 0; n-- {
+			cr, ci = cr*wr-ci*wi+coshSeries[n], cr*wi+ci*wr
+			sr, si = sr*wr-si*wi+sinhcSeries[n], sr*wi+si*wr
+		}
+		return complex(cr, ci), complex(sr, si)
+	}
+	lam, abs := csqrt(w)
+	x, y := real(lam), imag(lam)
+	ex := math.Exp(x)
+	ix := 1 / ex
+	chx, shx := (ex+ix)/2, (ex-ix)/2
+	sn, cs := math.Sincos(y)
+	ch = complex(chx*cs, shx*sn)
+	s := complex(shx*cs, chx*sn)
+	return ch, s * complex(x/abs, -y/abs)
+}
+
+// Weights of the fourth-order commutator-free Magnus integrator of the
+// systematic row (Blanes & Moan 2006, J. Comput. Appl. Math. 184, 13).
 var (
 	cf4a1 = 0.25 + math.Sqrt(3)/6
 	cf4a2 = 0.25 - math.Sqrt(3)/6
@@ -181,9 +267,14 @@ func (st *twoBeamStepper) Shift(psi []complex128, dGamma float64) {
 	psi[1] *= phase(dGamma)
 }
 
+// Intensities applies the pending mean absorption e^{−2μ·depth}.
 func (st *twoBeamStepper) Intensities(psi []complex128, out []float64) {
-	out[0] = sq(psi[0])
-	out[1] = sq(psi[1])
+	f := 1.0
+	if st.pending > 0 {
+		f = math.Exp(-2 * st.mu * st.pending)
+	}
+	out[0] = sq(psi[0]) * f
+	out[1] = sq(psi[1]) * f
 }
 
 // expi returns exp(i x); for |x| < 0.01 (the departures of accepted

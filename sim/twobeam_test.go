@@ -169,3 +169,40 @@ func TestExpi(t *testing.T) {
 		}
 	}
 }
+
+// coshSinhc against the standard library's cosh and sinh of the principal
+// square root, on both sides of the series bound and in every direction,
+// and the bound on the terms its series omit.
+func TestCoshSinhc(t *testing.T) {
+	tail := 0.0 // Σ_{n≥10} W^n/(2n)!, W = seriesMaxW
+	term := 1.0
+	for n := 1; n < 40; n++ {
+		term *= seriesMaxW / float64((2*n-1)*(2*n))
+		if n >= 10 {
+			tail += term
+		}
+	}
+	if tail > 2.5e-17 {
+		t.Errorf("series tail %.3g above the stated 2.5e-17", tail)
+	}
+	for _, r := range []float64{0, 1e-9, 1e-3, 0.3, 1, 1.4999, 1.5, 1.5001, 2.4, 10, 80} {
+		for k := 0; k < 16; k++ {
+			w := cmplx.Rect(r, 2*math.Pi*float64(k)/16+0.1)
+			ch, sh := coshSinhc(w)
+			l := cmplx.Sqrt(w)
+			wantC := cmplx.Cosh(l)
+			wantS := complex(1, 0)
+			if l != 0 {
+				wantS = cmplx.Sinh(l) / l
+			}
+			// A few units of rounding of either side.
+			tol := 2e-15 * math.Max(1, cmplx.Abs(wantC))
+			if d := cmplx.Abs(ch - wantC); d > tol {
+				t.Errorf("cosh√w at w = %v: %v, cmplx gives %v (difference %.2g)", w, ch, wantC, d)
+			}
+			if d := cmplx.Abs(sh - wantS); d > tol {
+				t.Errorf("sinh√w/√w at w = %v: %v, cmplx gives %v (difference %.2g)", w, sh, wantS, d)
+			}
+		}
+	}
+}
