@@ -10,6 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strconv"
 	"strings"
 
@@ -119,6 +120,85 @@ func replay(ctx context.Context, s *sim.Samples, st *scene.Setup, opt sim.Option
 		}
 	}
 	im, _, err := s.Replay(ctx, st.Problem.Model, st.Problem.ThicknessNm, opt)
+	if err != nil {
+		return nil, err
+	}
+	if b != nil {
+		if err := sim.Blur(im, *b); err != nil {
+			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
+	}
+	return im, nil
+}
+
+// SModel returns the setup's excitation error s (1/nm) and the setup's
+// model at any other s, every other constant kept, for an s table
+// (sim.TabulateS); ok is false for a model not tabulated in s (the
+// systematic row, whose recorded slabs NearbyModels does not widen).
+func SModel(st *scene.Setup) (s float64, model func(s float64) sim.Model, ok bool) {
+	switch m := st.Problem.Model.(type) {
+	case sim.TwoBeam:
+		return m.SPerNm, func(s float64) sim.Model { q := m; q.SPerNm = s; return q }, true
+	case sim.Kinematical:
+		return m.SPerNm, func(s float64) sim.Model { q := m; q.SPerNm = s; return q }, true
+	}
+	return 0, nil, false
+}
+
+// NearbyRange returns the range of s that samples recorded for st with
+// NearbyModels(st) serve with every recorded slab: s ± 0.01 /nm.
+func NearbyRange(st *scene.Setup) (lo, hi float64, ok bool) {
+	s, _, ok := SModel(st)
+	if !ok {
+		return 0, 0, false
+	}
+	return s - nearbyDeviation, s + nearbyDeviation, true
+}
+
+// TabulateS builds the table of the setup's exit intensities over s in
+// [lo, hi] at the setup's thickness from samples that serve the setup
+// (sim.TabulateS; the scene's blur is applied by FromTable).
+func TabulateS(ctx context.Context, smp *sim.Samples, st *scene.Setup, lo, hi float64, opt sim.STableOptions) (*sim.STable, error) {
+	if smp == nil || !smp.Serves(st.Problem) {
+		return nil, fmt.Errorf("s table: the samples do not serve this setup (%w)", sim.ErrReplayRange)
+	}
+	_, model, ok := SModel(st)
+	if !ok {
+		return nil, fmt.Errorf("s table: the %s model is not tabulated in s", st.Problem.Model.Name())
+	}
+	return sim.TabulateS(ctx, smp, model, lo, hi, st.Problem.ThicknessNm, opt)
+}
+
+// SOnly reports whether setup b differs from a in s alone, as far as the
+// render goes: the same field, g, foil normal, grid, tolerance and
+// thickness, and a's model at b's s is b's model.
+func SOnly(a, b *scene.Setup) bool {
+	_, ma, oka := SModel(a)
+	sb, _, okb := SModel(b)
+	return oka && okb && sim.SameBesidesModel(a.Problem, b.Problem) && reflect.DeepEqual(ma(sb), b.Problem.Model)
+}
+
+// TableServes reports whether FromTable renders the setup from t: only s
+// differs from the table's conditions, and it lies in the table's range.
+func TableServes(t *sim.STable, st *scene.Setup) bool {
+	s, _, ok := SModel(st)
+	return ok && t.Serves(st.Problem, s)
+}
+
+// FromTable renders the setup's problem from an s table that serves it
+// (see TableServes), applying the scene's blur.
+func FromTable(ctx context.Context, t *sim.STable, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
+	s, _, ok := SModel(st)
+	if !ok || !t.Serves(st.Problem, s) {
+		return nil, fmt.Errorf("s table: the table does not serve this setup (%w)", sim.ErrSTableRange)
+	}
+	b := st.Scene.Image.BlurNm
+	if b != nil {
+		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
+			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
+		}
+	}
+	im, err := t.Image(ctx, s, opt)
 	if err != nil {
 		return nil, err
 	}

@@ -86,6 +86,22 @@
 // against the step control with the new beat and integrating a column
 // afresh where one fails (see replay.go for the memory it takes).
 //
+// # Tabulated s
+//
+// Through a fixed sequence of recorded steps, every exit intensity is an
+// entire function of the excitation error s. TabulateS replays the samples
+// at the Chebyshev–Lobatto points of an interval [sLo, sHi] (doubling
+// their number, which reuses the replays, until the tail of every column's
+// and beam's Chebyshev coefficients is below DefaultSTableTail, 1e-6, or a
+// cap is reached, which is an error) and STable.Image evaluates the series
+// at any s of the interval by Clenshaw's recurrence (Clenshaw 1955, Math.
+// Tables Aids Comput. 9, 118; the interpolant and its tail estimate:
+// Trefethen 2013, Approximation Theory and Approximation Practice, ch. 3,
+// 4 and 8). On the demo scene at 256² over s ± 0.01 /nm the build takes 21
+// replays and the table 208 bytes per column; an evaluation costs about a
+// hundredth of a render (tests.BenchmarkDemo256STable), and agrees with a
+// replay within 1e-6 (tests.TestSTableAgreesWithReplay). See stable.go.
+//
 // # Concurrency
 //
 // Render spreads the rows of the grid over a pool of workers (Options.Workers,

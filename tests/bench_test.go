@@ -164,6 +164,37 @@ func BenchmarkDemo256SChange(b *testing.B) {
 	b.ReportMetric(float64(fresh), "fresh-columns")
 }
 
+// BenchmarkDemo256STable: the s change of BenchmarkDemo256SChange served
+// from an s table (sim.TabulateS) over s ± 0.01 /nm built, as the window
+// builds it, from samples recorded a quarter deeper: cpu-s/op is the cost
+// of evaluating the table at the new s; build-cpu-s, build-replays and
+// table-bytes/column are those of the one-off build (measured once).
+func BenchmarkDemo256STable(b *testing.B) {
+	st := loadScene(b, "../assets/demo.json", 256, 256, 0)
+	ctx := context.Background()
+	_, samples, err := export.Record(ctx, st, sim.Options{}, 1.25*st.Problem.ThicknessNm, export.NearbyModels(st))
+	if err != nil || samples == nil {
+		b.Fatalf("record: %v", err)
+	}
+	lo, hi, _ := export.NearbyRange(st)
+	build := startCPU()
+	tab, err := export.TabulateS(ctx, samples, st, lo, hi, sim.STableOptions{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	buildCPU := cpuSeconds() - build.start
+	cpu := startCPU()
+	for b.Loop() {
+		if _, err := tab.Image(ctx, 0.006, sim.Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	cpu.report(b)
+	b.ReportMetric(buildCPU, "build-cpu-s")
+	b.ReportMetric(float64(tab.Replays()), "build-replays")
+	b.ReportMetric(float64(tab.Bytes())/float64(256*256), "table-bytes/column")
+}
+
 // cpuClock measures the CPU time (user and system) of the process, which
 // depends far less than wall time on other work sharing the machine.
 type cpuClock struct{ start float64 }

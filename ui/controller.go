@@ -39,11 +39,22 @@ const (
 // RenderFunc renders the problem of a setup (with the scene's blur).
 type RenderFunc func(ctx context.Context, st *scene.Setup, opt sim.Options) (*sim.Image, error)
 
+// Where a full-resolution image came from.
+const (
+	SourceRender = "render" // integrated from the field
+	SourceReplay = "replay" // replayed from the field samples of an earlier render
+	SourceTable  = "table"  // evaluated from the s table (see Controller.STable)
+)
+
 // Result is one finished render.
 type Result struct {
 	Setup   *scene.Setup
 	Image   *sim.Image
-	Preview bool          // the coarse grid
+	Preview bool // the coarse grid
+	// Source is SourceRender, SourceReplay or SourceTable.
+	Source string
+	// Table is the s table the image was evaluated from (SourceTable).
+	Table   *sim.STable
 	Elapsed time.Duration // time spent rendering this image
 	// Latency is the time from the change that started the render to the
 	// moment the result was handed to the UI goroutine.
@@ -110,6 +121,21 @@ type Controller struct {
 	// (s, w, thickness, absorption, model constants) is replayed from
 	// them at full resolution, with no preview (see replayable).
 	samples *sim.Samples
+	// samplesSetup is the setup the samples were recorded for.
+	samplesSetup *scene.Setup
+
+	// The s table: after a change of s alone replayed from the samples,
+	// a table of the exit intensities over the s range the samples serve
+	// (export.NearbyRange) is built in the background; later changes of s
+	// alone inside it are evaluated from it (see launch). Any other change
+	// drops it, and cancels its build.
+	table       *sim.STable
+	tableSetup  *scene.Setup // the setup the table (or its build) is for
+	tableCancel context.CancelFunc
+	tableJob    uint64 // id of the build whose result is wanted
+	tableErr    error  // why the last build gave no table
+	tableBuild  time.Duration
+	onTable     []func()
 
 	onReplaced []func()
 	onBuilt    []func(st *scene.Setup, err error)
@@ -149,6 +175,20 @@ func (c *Controller) OnFailed(f func(err error)) { c.onFailed = append(c.onFaile
 
 // OnState registers f to run when the file name or the saved state changes.
 func (c *Controller) OnState(f func()) { c.onState = append(c.onState, f) }
+
+// OnTable registers f to run when an s table is built, fails or is
+// dropped (see STable).
+func (c *Controller) OnTable(f func()) { c.onTable = append(c.onTable, f) }
+
+// STable returns the s table of the current conditions, nil while none
+// is built; building reports a build in flight, and err why the last build
+// gave no table (nil if it did, or none was tried).
+func (c *Controller) STable() (t *sim.STable, building bool, err error) {
+	return c.table, c.tableCancel != nil, c.tableErr
+}
+
+// STableBuildTime returns the wall time the current s table took to build.
+func (c *Controller) STableBuildTime() time.Duration { return c.tableBuild }
 
 // Scene returns the scene being edited. Change it only through Edit.
 func (c *Controller) Scene() *scene.Scene { return c.sc }
@@ -374,9 +414,22 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 	c.jobStarted = time.Now()
 	job := c.job
 	render := c.Render
+	if render == nil {
+		if t := c.table; t != nil && export.TableServes(t, st) {
+			c.previewing = false
+			c.fromTable(ctx, job, t, st, gen, changed)
+			return
+		}
+		if c.tableSetup != nil && !export.SOnly(c.tableSetup, st) {
+			c.dropTable()
+		}
+	}
 	if s := c.samples; s != nil && render == nil && s.Serves(st.Problem) {
 		c.previewing = false
-		c.replay(ctx, job, s, st, gen, changed)
+		// A change of s alone from the image shown: build the s table for
+		// the next ones.
+		sMove := c.lastFull != nil && export.SOnly(c.lastFull.Setup, st)
+		c.replay(ctx, job, s, st, gen, changed, sMove)
 		return
 	}
 	record := render == nil
@@ -396,7 +449,7 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 			im, err := render(ctx, preview, sim.Options{Workers: workers})
 			var r *Result
 			if err == nil {
-				r = &Result{Setup: preview, Image: im, Preview: true, Elapsed: time.Since(t0), Gen: gen}
+				r = &Result{Setup: preview, Image: im, Preview: true, Source: SourceRender, Elapsed: time.Since(t0), Gen: gen}
 			}
 			post(func() { c.previewDone(job, r, err, changed) })
 			if err != nil {
@@ -447,10 +500,10 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 			post(func() { c.fail(job, err) })
 			return
 		}
-		r := &Result{Setup: st, Image: im, Elapsed: time.Since(t0), Gen: gen}
+		r := &Result{Setup: st, Image: im, Source: SourceRender, Elapsed: time.Since(t0), Gen: gen}
 		post(func() {
 			if job == c.job {
-				c.samples = samples
+				c.samples, c.samplesSetup = samples, st
 			}
 			c.deliver(job, r, changed)
 		})
@@ -458,8 +511,9 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 }
 
 // replay renders change gen of st from the field samples of an earlier
-// full render, at full resolution.
-func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st *scene.Setup, gen uint64, changed time.Time) {
+// full render, at full resolution; with sMove (a change of s alone) it
+// then starts building the s table, unless one is built or building.
+func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st *scene.Setup, gen uint64, changed time.Time, sMove bool) {
 	workers, post := c.Workers, c.Post
 	cancel := c.cancel
 	go func() {
@@ -473,9 +527,85 @@ func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st 
 			post(func() { c.fail(job, err) })
 			return
 		}
-		r := &Result{Setup: st, Image: im, Elapsed: time.Since(t0), Gen: gen}
+		r := &Result{Setup: st, Image: im, Source: SourceReplay, Elapsed: time.Since(t0), Gen: gen}
+		post(func() {
+			c.deliver(job, r, changed)
+			if sMove && job == c.job && c.table == nil && c.tableCancel == nil && c.samples == s {
+				c.buildTable(s, st)
+			}
+		})
+	}()
+}
+
+// fromTable renders change gen of st from the s table, at full
+// resolution.
+func (c *Controller) fromTable(ctx context.Context, job uint64, t *sim.STable, st *scene.Setup, gen uint64, changed time.Time) {
+	workers, post := c.Workers, c.Post
+	cancel := c.cancel
+	go func() {
+		defer cancel()
+		t0 := time.Now()
+		im, err := export.FromTable(ctx, t, st, sim.Options{Workers: workers})
+		if ctx.Err() != nil {
+			return
+		}
+		if err != nil {
+			post(func() { c.fail(job, err) })
+			return
+		}
+		r := &Result{Setup: st, Image: im, Source: SourceTable, Table: t, Elapsed: time.Since(t0), Gen: gen}
 		post(func() { c.deliver(job, r, changed) })
 	}()
+}
+
+// buildTable starts building, off the UI goroutine, the s table of st's
+// conditions over the s range the samples serve (export.NearbyRange of
+// the setup they were recorded for), if st's s lies inside it.
+func (c *Controller) buildTable(s *sim.Samples, st *scene.Setup) {
+	lo, hi, ok := export.NearbyRange(c.samplesSetup)
+	cur, _, ok2 := export.SModel(st)
+	if !ok || !ok2 || cur < lo || cur > hi {
+		return
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	c.tableJob++
+	id := c.tableJob
+	c.tableSetup, c.tableCancel, c.tableErr = st, cancel, nil
+	workers, post := c.Workers, c.Post
+	go func() {
+		defer cancel()
+		t0 := time.Now()
+		t, err := export.TabulateS(ctx, s, st, lo, hi, sim.STableOptions{Options: sim.Options{Workers: workers}})
+		took := time.Since(t0)
+		if ctx.Err() != nil {
+			return
+		}
+		post(func() {
+			if id != c.tableJob {
+				return
+			}
+			c.tableCancel = nil
+			c.table, c.tableErr, c.tableBuild = t, err, took
+			for _, f := range c.onTable {
+				f()
+			}
+		})
+	}()
+}
+
+// dropTable drops the s table and cancels its build.
+func (c *Controller) dropTable() {
+	if c.tableCancel != nil {
+		c.tableCancel()
+	}
+	had := c.table != nil || c.tableCancel != nil || c.tableErr != nil
+	c.tableJob++
+	c.table, c.tableSetup, c.tableCancel, c.tableErr = nil, nil, nil, nil
+	if had {
+		for _, f := range c.onTable {
+			f()
+		}
+	}
 }
 
 // recordThickness is the thickness the samples of a full render reach: a
@@ -578,8 +708,11 @@ func (c *Controller) fireState() {
 	}
 }
 
-// Close cancels the render in flight.
-func (c *Controller) Close() { c.stop() }
+// Close cancels the render in flight and the s table's build.
+func (c *Controller) Close() {
+	c.stop()
+	c.dropTable()
+}
 
 // previewSetup returns a copy of st whose grid has the longer side n
 // columns over the same field, integrated to PreviewTolerance, or nil when

@@ -104,7 +104,7 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 			return
 		}
 		s.Progress.SetValue(1)
-		text := fmt.Sprintf("Full render %d × %d: %s", g.NX, g.NY, ms(r.Elapsed))
+		text := fullText(r)
 		if s.preview > 0 {
 			text += fmt.Sprintf("   (preview after %s)", ms(s.preview))
 		}
@@ -118,6 +118,22 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 	bar := container.NewGridWrap(fyne.NewSize(160, s.Progress.MinSize().Height), s.Progress)
 	line := container.NewBorder(nil, nil, container.NewHBox(bar, s.Timing), nil, s.Message)
 	return container.NewVBox(readings, line)
+}
+
+// fullText says how a full-resolution image was made and how long it
+// took: rendered, replayed from the field samples, or evaluated from the
+// s table (with the table's range and estimated error).
+func fullText(r *Result) string {
+	g := r.Image.Grid
+	switch r.Source {
+	case SourceReplay:
+		return fmt.Sprintf("Full image %d × %d replayed from the field samples: %s", g.NX, g.NY, ms(r.Elapsed))
+	case SourceTable:
+		lo, hi := r.Table.Range()
+		return fmt.Sprintf("Full image %d × %d from the s table (s %.4f to %.4f /nm, estimated within %.0e of a replay): %s",
+			g.NX, g.NY, lo, hi, r.Table.ErrorEstimate(), ms(r.Elapsed))
+	}
+	return fmt.Sprintf("Full render %d × %d: %s", g.NX, g.NY, ms(r.Elapsed))
 }
 
 // ms writes a duration in milliseconds, or seconds from 10 s on.

@@ -1,0 +1,492 @@
+package sim
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"reflect"
+	"sync"
+	"sync/atomic"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// The exit intensities tabulated in s: a Chebyshev series per column.
+//
+// Through a fixed sequence of steps (the recorded samples of a column),
+// every exit intensity is an entire function of the excitation error s:
+// each step's transfer matrix is the exponential of a matrix whose entries
+// are polynomial in s. Such a function is approximated on an interval
+// [sLo, sHi] by its Chebyshev interpolant p_N, whose coefficients decay
+// faster than any geometric sequence (Trefethen 2013, Approximation Theory
+// and Approximation Practice, ch. 8), and the interpolant is evaluated at
+// any s of the interval by Clenshaw's recurrence (Clenshaw 1955, Math.
+// Tables Aids Comput. 9, 118) in N multiply-adds per column and beam.
+//
+// TabulateS replays the samples of every column at the Chebyshev–Lobatto
+// points s_j = (sLo+sHi)/2 + (sHi−sLo)/2 · cos(πj/N), j = 0…N (the
+// interpolant's coefficients are then a discrete cosine transform of the
+// values, Trefethen ch. 3), doubling N (which keeps the points already
+// replayed) until, for EVERY column and beam, the tail of the coefficients
+//
+//	tail = 2 Σ_{k ≥ ⌈3N/4⌉} |c_k|
+//
+// is at most STableOptions.TailBound (DefaultSTableTail). The estimate is
+// that of the aliasing bound |f − p_N| ≤ 2 Σ_{k>N} |a_k| (Trefethen ch. 4,
+// Theorem 4.2), with the top quarter of the computed coefficients standing
+// in for the unknown ones beyond N: for coefficients that decay
+// geometrically or faster it exceeds them. It is an estimate, not a proof;
+// TestSTableAgreesWithReplay measures the actual error against replays at
+// random s. If the cap on N (STableOptions.MaxDegree) or on the memory is
+// reached first, TabulateS returns an error and no table.
+//
+// Every column is replayed through the same steps at every point, so that
+// the tabulated function is smooth: the recorded steps up to the exit
+// surface, each checked against the step control with the fastest beat of
+// the models at sLo, the middle and sHi (for the two-beam and kinematical
+// models the beat is convex in s, so that bounds it over the interval);
+// the slab the exit surface cuts is integrated afresh from the field once,
+// with the same beats; a column whose recorded slabs fail is integrated
+// afresh once, recording its steps. Each point's replay checks every slab
+// against its own model's beat, as Samples.Replay does, and a failure is
+// an error (the interval is wider than the samples serve).
+//
+// Memory: during the build (N+1)·beams·8 bytes per column (2N+1 while
+// doubling), kept: the coefficients up to the last one that matters,
+// L·beams·8 bytes per column (on the demo scene at 256², N = 20, two
+// beams: (2·20+1)·2·8 = 656 bytes per column while building, 13
+// coefficients or 208 bytes per column kept, 14 MB at 256²).
+// STableOptions.MaxBytes caps the build.
+
+// DefaultSTableTail is the default bound on the tail of every column's
+// and beam's Chebyshev coefficients, in units of the incident intensity.
+const DefaultSTableTail = 1e-6
+
+// DefaultSTableBytes is the default cap on the memory of a table's build.
+const DefaultSTableBytes = 256 << 20
+
+// Degrees of the Chebyshev interpolant: the first tried (N = 10, 20, 40,
+// 80: 11, 21, 41, 81 replays), and the default cap. On the demo scene
+// (t = 120 nm, s ± 0.01 /nm) the coefficients fall below 1e-7 from about
+// the 13th on, so N = 20 meets the default bound.
+const (
+	minSTableDegree     = 10
+	DefaultSTableDegree = 80
+)
+
+// ErrSTableRange is returned by STable.Image for an s outside the table.
+var ErrSTableRange = errors.New("outside the tabulated s range")
+
+// ErrSTableCap is returned by TabulateS when the tail does not fall below
+// the bound within the cap on the degree or the memory.
+var ErrSTableCap = errors.New("the Chebyshev tail does not meet the bound within the cap")
+
+// STableOptions control TabulateS.
+type STableOptions struct {
+	Options
+	// TailBound bounds the tail of every column's and beam's coefficients
+	// (0: DefaultSTableTail).
+	TailBound float64
+	// MaxDegree caps N (0: DefaultSTableDegree); N doubles from 10.
+	MaxDegree int
+	// MaxBytes caps the memory of the build (0: DefaultSTableBytes).
+	MaxBytes int64
+}
+
+// STable holds every column's exit intensities as Chebyshev series in s
+// over [sLo, sHi], at one thickness (see TabulateS).
+type STable struct {
+	p        Problem // the samples' problem at the table's thickness; Model is that at the middle
+	model    func(s float64) Model
+	lo, hi   float64
+	nb       int       // beams
+	n        int       // coefficients kept per column and beam
+	coef     []float64 // ((j*NX+i)*nb + b)*n + k
+	degree   int
+	replays  int
+	fresh    int
+	tail     float64
+	chopped  float64
+	withFild bool
+}
+
+// Range returns the tabulated interval of s, 1/nm.
+func (t *STable) Range() (lo, hi float64) { return t.lo, t.hi }
+
+// ThicknessNm returns the thickness the table is for.
+func (t *STable) ThicknessNm() float64 { return t.p.ThicknessNm }
+
+// Degree returns N, the degree of the interpolant that met the bound.
+func (t *STable) Degree() int { return t.degree }
+
+// Replays returns the number of replays of the samples the build took
+// (N+1).
+func (t *STable) Replays() int { return t.replays }
+
+// FreshColumns returns the number of columns whose recorded slabs did not
+// serve the interval and were integrated afresh (once) for the table.
+func (t *STable) FreshColumns() int { return t.fresh }
+
+// ErrorEstimate returns the estimated largest error of the table against
+// a replay at the same s, in units of the incident intensity: the largest
+// tail over columns and beams plus the largest sum of the coefficients
+// dropped after the fit.
+func (t *STable) ErrorEstimate() float64 { return t.tail + t.chopped }
+
+// Bytes returns the memory the table holds.
+func (t *STable) Bytes() int64 { return int64(len(t.coef)) * 8 }
+
+// Coefficients returns the number of coefficients kept per column and
+// beam.
+func (t *STable) Coefficients() int { return t.n }
+
+// Serves reports whether Image(s) renders p: the samples' field, g, foil
+// normal, grid and tolerance, the table's thickness, s inside the range
+// and p's model the table's model at s.
+func (t *STable) Serves(p *Problem, s float64) bool {
+	return s >= t.lo && s <= t.hi && SameBesidesModel(p, &t.p) && reflect.DeepEqual(p.Model, t.model(s))
+}
+
+// SameBesidesModel reports whether p and q differ at most in their models:
+// the same field value (see Samples.Serves), g, foil normal, grid,
+// tolerance and thickness.
+func SameBesidesModel(p, q *Problem) bool {
+	return p.GPerNm == q.GPerNm && p.Normal == q.Normal && p.Grid == q.Grid &&
+		p.Tolerance == q.Tolerance && p.ThicknessNm == q.ThicknessNm && sameField(p.Field, q.Field)
+}
+
+// TabulateS builds the table of the exit intensities of every column for
+// s in [sLo, sHi] and thickness thicknessNm (at most the samples'), with
+// model(s) the model at s (which must differ from model(s') in s alone and
+// have the same beams), from the samples s. See the comment above for the
+// method, its error estimate and its memory.
+func TabulateS(ctx context.Context, smp *Samples, model func(s float64) Model, sLo, sHi, thicknessNm float64, opt STableOptions) (*STable, error) {
+	if smp == nil {
+		return nil, errors.New("s table: no samples")
+	}
+	if math.IsNaN(sLo) || math.IsNaN(sHi) || math.IsInf(sLo, 0) || math.IsInf(sHi, 0) || !(sHi > sLo) {
+		return nil, fmt.Errorf("s table: range [%g, %g] /nm: must be finite with sLo < sHi", sLo, sHi)
+	}
+	if !(thicknessNm > 0) || thicknessNm > smp.p.ThicknessNm*(1+1e-12) {
+		return nil, fmt.Errorf("s table: thickness %g nm: %w (recorded up to %g nm)", thicknessNm, ErrReplayRange, smp.p.ThicknessNm)
+	}
+	bound := opt.TailBound
+	if bound <= 0 {
+		bound = DefaultSTableTail
+	}
+	maxDeg := opt.MaxDegree
+	if maxDeg <= 0 {
+		maxDeg = DefaultSTableDegree
+	}
+	limit := opt.MaxBytes
+	if limit <= 0 {
+		limit = DefaultSTableBytes
+	}
+	mid := (sLo + sHi) / 2
+	edge := []Model{model(sLo), model(mid), model(sHi)}
+	nb := len(edge[1].Beams())
+	for _, m := range edge {
+		if err := m.Validate(); err != nil {
+			return nil, fmt.Errorf("s table: model %s: %w", m.Name(), err)
+		}
+		if len(m.Beams()) != nb {
+			return nil, errors.New("s table: the models at the ends of the range follow different beams")
+		}
+	}
+	p := smp.p
+	p.ThicknessNm = thicknessNm
+	p.Model = edge[1]
+	g := p.Grid
+	cols := g.NX * g.NY
+	sAt := func(j, n int) float64 { return mid + (sHi-sLo)/2*math.Cos(math.Pi*float64(j)/float64(n)) }
+
+	var vals []float64 // ((pix*nb + b)*(n+1) + j
+	var fresh atomic.Int64
+	n, replays := minSTableDegree, 0
+	for {
+		if need := int64(cols) * int64(nb) * int64(2*n+1) * 8; need > limit {
+			return nil, fmt.Errorf("s table: %d points would take %d bytes (%d per column), above the cap of %d: %w",
+				n+1, need, need/int64(cols), limit, ErrSTableCap)
+		}
+		// The points to replay: all of them at first, then the odd ones
+		// of the doubled set, the even ones being the previous points.
+		next := make([]float64, cols*nb*(n+1))
+		var todo []int
+		if vals == nil {
+			for j := 0; j <= n; j++ {
+				todo = append(todo, j)
+			}
+		} else {
+			for q := 0; q < cols*nb; q++ {
+				old, now := vals[q*(n/2+1):(q+1)*(n/2+1)], next[q*(n+1):(q+1)*(n+1)]
+				for j, v := range old {
+					now[2*j] = v
+				}
+			}
+			for j := 1; j < n; j += 2 {
+				todo = append(todo, j)
+			}
+		}
+		vals = next
+		models := make([]Model, len(todo))
+		for k, j := range todo {
+			models[k] = model(sAt(j, n))
+		}
+		fresh.Store(0)
+		var failed error
+		var failOnce sync.Once
+		rctx, cancel := context.WithCancel(ctx)
+		err := rowPool(rctx, 0, g.NY, opt.Options, func() func(j int) {
+			prep := newColumn(&p, smp.phase)
+			prep.st = edge[0].NewStepper()
+			prep.also = []Stepper{edge[1].NewStepper(), edge[2].NewStepper()}
+			sts := make([]Stepper, len(models))
+			for k, m := range models {
+				sts[k] = m.NewStepper()
+			}
+			psi := make([]complex128, nb)
+			out := make([]float64, nb)
+			var steps []step
+			return func(j int) {
+				y := g.Y(j)
+				row, st := smp.rows[j], smp.starts[j]
+				for i := 0; i < g.NX; i++ {
+					var ok bool
+					steps, ok = prep.fixedSteps(g.X(i), y, row[st[i]:st[i+1]], smp.gamma0[j*g.NX+i], steps)
+					if !ok {
+						fresh.Add(1)
+					}
+					pix := j*g.NX + i
+					for k, s := range sts {
+						if !applySteps(s, psi, steps, prep.tol) {
+							failOnce.Do(func() {
+								failed = fmt.Errorf("s table: column (%d, %d): a slab fails the step control at s = %g /nm: %w",
+									i, j, sAt(todo[k], n), ErrReplayRange)
+								cancel()
+							})
+							return
+						}
+						s.Intensities(psi, out)
+						for b := 0; b < nb; b++ {
+							vals[(pix*nb+b)*(n+1)+todo[k]] = out[b]
+						}
+					}
+				}
+			}
+		})
+		cancel()
+		if failed != nil {
+			return nil, failed
+		}
+		if err != nil {
+			return nil, err
+		}
+		replays += len(todo)
+		for _, v := range vals {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, errors.New("s table: a replay gave a non-finite intensity")
+			}
+		}
+		tail := chebTails(vals, cols*nb, n, false)
+		if tail <= bound {
+			chebTails(vals, cols*nb, n, true) // values to coefficients, in place
+			t := &STable{p: p, model: model, lo: sLo, hi: sHi, nb: nb, degree: n, replays: replays,
+				fresh: int(fresh.Load()), tail: tail, withFild: p.Field != nil}
+			t.chop(vals, n+1, bound)
+			return t, nil
+		}
+		if 2*n > maxDeg {
+			return nil, fmt.Errorf("s table: after %d replays (N = %d) the largest tail is %.2g, above the bound %.2g: %w",
+				replays, n, tail, bound, ErrSTableCap)
+		}
+		n *= 2
+	}
+}
+
+// chebTails turns each of the m sequences of n+1 values at the
+// Chebyshev–Lobatto points cos(πj/n) in vals into the coefficients of
+// their interpolant (Trefethen 2013, ch. 3: c_k = (2/n) Σ″ f_j cos(πjk/n),
+// the end terms and c_0, c_n halved) and returns the largest tail
+// 2 Σ_{k ≥ ⌈3n/4⌉} |c_k|. With inPlace the coefficients replace the
+// values; otherwise vals is left as it was.
+func chebTails(vals []float64, m, n int, inPlace bool) float64 {
+	dct := fourier.NewDCT(n + 1)
+	c := make([]float64, n+1)
+	from := (3*n + 3) / 4
+	worst := 0.0
+	for q := 0; q < m; q++ {
+		v := vals[q*(n+1) : (q+1)*(n+1)]
+		dct.Transform(c, v) // c_k·n, c_0 and c_n twice over
+		c[0] /= 2
+		c[n] /= 2
+		tail := 0.0
+		for k := range c {
+			c[k] /= float64(n)
+			if k >= from {
+				tail += math.Abs(c[k])
+			}
+		}
+		worst = math.Max(worst, 2*tail)
+		if inPlace {
+			copy(v, c)
+		}
+	}
+	return worst
+}
+
+// chop keeps of the coefficients (m per column and beam, in vals) the
+// first L, the smallest for which the largest sum of the dropped ones over
+// columns and beams is at most bound, and records that sum.
+func (t *STable) chop(vals []float64, m int, bound float64) {
+	q := len(vals) / m
+	// dropped[L] = max over series of Σ_{k ≥ L} |c_k|.
+	dropped := make([]float64, m+1)
+	for s := 0; s < q; s++ {
+		c := vals[s*m : (s+1)*m]
+		sum := 0.0
+		for k := m - 1; k >= 0; k-- {
+			sum += math.Abs(c[k])
+			dropped[k] = math.Max(dropped[k], sum)
+		}
+	}
+	l := m
+	for l > 1 && dropped[l-1] <= bound {
+		l--
+	}
+	t.n = l
+	t.chopped = dropped[l]
+	if l == m {
+		t.coef = vals
+		return
+	}
+	t.coef = make([]float64, q*l)
+	for s := 0; s < q; s++ {
+		copy(t.coef[s*l:(s+1)*l], vals[s*m:s*m+l])
+	}
+}
+
+// Image evaluates the table at s (inside the range) by Clenshaw's
+// recurrence (Clenshaw 1955) for every column and beam.
+func (t *STable) Image(ctx context.Context, s float64, opt Options) (*Image, error) {
+	if math.IsNaN(s) || s < t.lo || s > t.hi {
+		return nil, fmt.Errorf("s = %g /nm: %w [%g, %g] /nm", s, ErrSTableRange, t.lo, t.hi)
+	}
+	p := t.p
+	p.Model = t.model(s)
+	im := newImage(&p)
+	x := (2*s - (t.lo + t.hi)) / (t.hi - t.lo)
+	g := p.Grid
+	nb, n := t.nb, t.n
+	err := rowPool(ctx, 0, g.NY, opt, func() func(j int) {
+		return func(j int) {
+			for i := 0; i < g.NX; i++ {
+				pix := j*g.NX + i
+				for b := 0; b < nb; b++ {
+					q := (pix*nb + b) * n
+					im.Intensity[b][pix] = clenshaw(t.coef[q:q+n], x)
+				}
+			}
+		}
+	})
+	if err != nil {
+		return nil, err
+	}
+	if err := im.checkFinite(t.withFild); err != nil {
+		return nil, err
+	}
+	return im, nil
+}
+
+// clenshaw returns Σ c_k T_k(x) by Clenshaw's recurrence (Clenshaw 1955):
+// b_k = c_k + 2x b_{k+1} − b_{k+2}, sum = c_0 + x b_1 − b_2.
+func clenshaw(c []float64, x float64) float64 {
+	var b1, b2 float64
+	for k := len(c) - 1; k >= 1; k-- {
+		b1, b2 = c[k]+2*x*b1-b2, b1
+	}
+	return c[0] + x*b1 - b2
+}
+
+// fixedSteps writes into dst, and returns, the steps of the column through
+// (x, y) from the entrance to the exit surface of c's problem that serve
+// every model of the table's range (see the comment above): the recorded
+// steps when each passes the step control with c's fastest beat, the slab
+// the exit surface cuts integrated afresh with that beat; otherwise the
+// whole column integrated afresh (ok false).
+func (c *column) fixedSteps(x, y float64, rec []step, gamma0 float64, dst []step) (out []step, ok bool) {
+	c.x, c.y = x, y
+	z, zEnd := c.p.surfaces(x, y)
+	gam := gamma0
+	dst = dst[:0]
+	c.st.Start(c.psi)
+	for _, o := range rec {
+		if z >= zEnd-1e-12 {
+			break
+		}
+		switch {
+		case o.h == 0:
+			dst = append(dst, o)
+			gam += o.rise
+		case o.d1 != o.d1: // NaN: vacuum
+			dst = append(dst, step{h: math.Min(o.h, zEnd-z), d1: o.d1})
+			z = math.Min(z+o.h, zEnd)
+		default:
+			if z+o.h > zEnd+1e-12 {
+				c.rec = &recorder{steps: dst}
+				end := c.segment(z, zEnd, gam)
+				dst = c.rec.steps
+				c.rec = nil
+				if end != end {
+					return c.afresh(x, y, dst)
+				}
+				z = zEnd
+				continue
+			}
+			slope := o.rise / o.h
+			if !accept(indicator(float64(o.d1), float64(o.d2), c.beat(slope)*o.h), c.tol, o.h) {
+				return c.afresh(x, y, dst)
+			}
+			dst = append(dst, o)
+			z += o.h
+			gam += o.rise
+		}
+	}
+	return dst, true
+}
+
+// afresh integrates the column through (x, y) from the field, recording
+// its steps into dst.
+func (c *column) afresh(x, y float64, dst []step) ([]step, bool) {
+	c.rec = &recorder{steps: dst[:0]}
+	c.run(x, y)
+	dst = c.rec.steps
+	c.rec = nil
+	return dst, false
+}
+
+// stableSlack is the relative slack of the step control when a point of
+// the table replays a slab: the departures are stored in float32.
+const stableSlack = 1e-6
+
+// applySteps integrates psi through steps with st, from the entrance, and
+// reports false if a slab fails the step control with st's beat.
+func applySteps(st Stepper, psi []complex128, steps []step, tol float64) bool {
+	st.Start(psi)
+	for _, o := range steps {
+		switch {
+		case o.h == 0:
+			st.Shift(psi, o.rise)
+		case o.d1 != o.d1:
+			st.Vacuum(psi, o.h)
+		default:
+			d1, d2 := float64(o.d1), float64(o.d2)
+			slope := o.rise / o.h
+			if !accept(indicator(d1, d2, st.Beat(slope)*o.h), tol*(1+stableSlack), o.h) {
+				return false
+			}
+			st.Crystal(psi, o.h, slope, d1, d2)
+		}
+	}
+	return true
+}
