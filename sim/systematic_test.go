@@ -349,40 +349,66 @@ func TestRowRockingCurveOfHalfExtinctionFoil(t *testing.T) {
 	}
 }
 
-// weakBeamPeak scans the dark field across a dislocation along the image
-// direction y (alongY) or x, over |u| ≤ maxNm, at depth 50 nm of a 100 nm
-// foil, for a row of 2n+1 beams with g at s1, and returns the peak
-// position (nm from the core) and its full width at half maximum above the
-// perfect-crystal background.
-func weakBeamPeak(t *testing.T, f Displacement, n int, s1, g, maxNm float64, alongY bool) (pos, fwhm float64) {
+// weakBeamModel is the weak-beam test crystal at excitation error s1 of g
+// (|g| = 7.8 /nm, a 220-like reflection, whose extinction distances are
+// 1.5 testXi(h): weaker than at 4.9 /nm), absorption ratio 0.1 and
+// ξ'_0 = ξ'_g: the two-beam model for n = 0, else the systematic row of
+// 2n+1 beams.
+func weakBeamModel(n int, s1, g float64) Model {
+	xi := func(h int) float64 { return 1.5 * testXi(h) }
+	if n == 0 {
+		return TwoBeam{SPerNm: s1, XiGNm: xi(1), XiGAbsNm: xi(1) / 0.1, Xi0AbsNm: xi(1) / 0.1}
+	}
 	m := SystematicRow{SPerNm: RowExcitation(n, s1, testLambdaNm, g), LambdaU: make([]complex128, 4*n+1), LambdaUAbs: make([]complex128, 4*n+1)}
 	for h := -2 * n; h <= 2*n; h++ {
 		if h != 0 {
-			xi := 1.5 * testXi(h) // a reflection at g = 7.8/nm is weaker
-			m.LambdaU[h+2*n] = complex(1/xi, 0)
-			m.LambdaUAbs[h+2*n] = complex(0.1/xi, 0)
+			m.LambdaU[h+2*n] = complex(1/xi(h), 0)
+			m.LambdaUAbs[h+2*n] = complex(0.1/xi(h), 0)
 		}
 	}
-	m.Xi0AbsNm = 1.5 * testXi(1) / 0.1
+	m.Xi0AbsNm = xi(1) / 0.1
+	return m
+}
+
+// weakBeamProfile is the g beam across a dislocation at the columns us
+// along the image direction y (alongY) or x, the dislocation at depth
+// 50 nm of a 100 nm foil, and the perfect crystal's g beam.
+func weakBeamProfile(m Model, f Displacement, g float64, us []float64, alongY bool) (df []float64, bg float64) {
+	ig := -1
+	for i, b := range m.Beams() {
+		if b == 1 {
+			ig = i
+		}
+	}
 	p := &Problem{Model: m, GPerNm: g, Field: f, ThicknessNm: 100, Grid: Grid{NX: 1, NY: 1, WidthNm: 1, HeightNm: 1}}
-	const step = 0.05
-	var xs, df []float64
-	for u := -maxNm; u <= maxNm; u += step {
+	for _, u := range us {
 		var v []float64
 		if alongY {
 			v = p.Column(0, u)
 		} else {
 			v = p.Column(u, 0)
 		}
-		xs = append(xs, u)
-		df = append(df, v[n+1])
+		df = append(df, v[ig])
 	}
-	bg := perfectProblem(m, 100).Column(0, 0)[n+1]
-	ib := 0
+	return df, perfectProblem(m, 100).Column(0, 0)[ig]
+}
+
+// peakOf is the largest sample of df among the columns xs for which keep
+// is true (nil: all), refined by the parabola through it and its
+// neighbours, and the full width at half its height above bg, the
+// crossings interpolated linearly (0 when df does not fall to half within
+// the columns).
+func peakOf(xs, df []float64, bg float64, keep func(x float64) bool) (pos, fwhm float64) {
+	ib := -1
 	for i := range df {
-		if df[i] > df[ib] {
+		if (keep == nil || keep(xs[i])) && (ib < 0 || df[i] > df[ib]) {
 			ib = i
 		}
+	}
+	pos = xs[ib]
+	if ib > 0 && ib < len(df)-1 {
+		a, b, c := df[ib-1], df[ib], df[ib+1]
+		pos += (xs[ib+1] - xs[ib]) * (a - c) / (2 * (a - 2*b + c))
 	}
 	half := bg + (df[ib]-bg)/2
 	lo, hi := ib, ib
@@ -392,7 +418,11 @@ func weakBeamPeak(t *testing.T, f Displacement, n int, s1, g, maxNm float64, alo
 	for hi < len(df)-1 && df[hi] > half {
 		hi++
 	}
-	return xs[ib], xs[hi] - xs[lo]
+	if df[lo] > half || df[hi] > half {
+		return pos, 0
+	}
+	cross := func(j, k int) float64 { return xs[j] + (half-df[j])*(xs[k]-xs[j])/(df[k]-df[j]) }
+	return pos, math.Abs(cross(hi-1, hi) - cross(lo, lo+1))
 }
 
 func TestRowWeakBeamPeakPosition(t *testing.T) {
@@ -402,59 +432,173 @@ func TestRowWeakBeamPeakPosition(t *testing.T) {
 	// through the core's depth that happens at
 	//   screw: |x| = g·b/(2π|s|),  edge: |x| = g·b(1 + 1/(2(1−ν)))/(2π|s|)
 	// (isotropic fields, Hirth & Lothe 1982), on the side where g·dR/dz has
-	// the sign opposite to s. That is where the two stationary points of
-	// the column's phase coalesce; nearer the core they are separate, and
-	// the maximum of such a coalescence lies inside it (Airy-type). The
-	// published many-beam computations put the peak somewhat inside the
-	// rule's position (Cockayne 1972, Z. Naturforsch. 27a, 452; the size of
-	// the shift from memory). Checked: the peak on the rule's side, at
-	// 0.45–1.0 of its |x| (measured 0.5–0.8 for g·b = 2 in g(3g) and g(4g)),
-	// and a few nm wide, 0.5–3 nm (common practice).
-	const g = 7.8 // a 220-like reflection of the test crystal, 1/nm
+	// the sign opposite to s: "the rule". There the two stationary points
+	// of the column's phase coalesce; the image's maximum lies inside it.
+	//
+	// Kinematically, for a screw in an infinite foil the column integral
+	// has a closed form (z = |x|v, a = 2πs|x|, on the rule's side):
+	//   g·b = 2: ∫e^{iav}(1+iv)/(1−iv) dv ∝ e^{−a}, I ∝ x²e^{−2a}, peak at
+	//            a = 1, i.e. |x| = 0.5 of the rule exactly;
+	//   g·b = 1: ∫e^{iav}(1+iv)/√(1+v²) dv = 2(K_0(a) + K_1(a)),
+	//            I ∝ a²(K_0+K_1)², peak at a = 0.315 (0.315 of the rule).
+	// The two-beam peak must lie within 0.03 of those (finite foil and
+	// dynamical coupling, w = sξ_g = 9–14 here, move it by up to 0.02);
+	// the edge has no closed form and is held to the numpy kinematical
+	// integral instead (0.61 and 0.47 of the rule for g·b = 2 and 1).
+	//
+	// Independent reference: internal/pyref/weakbeam.py integrates the
+	// same column equations with numpy (Howie–Whelan, Hirsch et al. 1965;
+	// its own isotropic fields and sign conventions; Strang splitting with
+	// Richardson extrapolation, converged to 2e-7 outside the core at the
+	// step used). The profiles are compared column by column, measured
+	// from the core toward the side where s + g·dR/dz = 0 by each one's
+	// own field; columns within 0.3 nm of the core (where linear
+	// elasticity does not hold and both integrators meet a singular
+	// field) are left out. Tolerance 2e-5 of the incident beam, a fifth of
+	// the render's stated accuracy (1e-4), the rest left to the step
+	// control (measured worst 7e-7). The peaks (largest sample in ±2.5
+	// rule, interpolated) within 0.01 nm (measured 0.001).
+	//
+	// With the systematic row (7 beams in g(3g), 9 in g(4g)) the strongly
+	// excited n·g beam changes the picture: near the core the maximum on
+	// the rule's side lies at 0.52–0.77 of the rule for g·b = 2 at 100 nm
+	// (0.61–0.86 averaged over foils 100–140 nm: it depends on thickness,
+	// as Hemker 1997, Phil. Mag. A 76, 241, reports for computed images),
+	// checked at 0.45–0.9; in g(4g) a broad maximum further out (about
+	// 2.1–2.3 rule) is higher still, in both integrations. The near-core
+	// peak is a few nm wide at |s| ≥ 0.2 /nm (common practice for weak
+	// beam): FWHM 0.5–3 nm.
+	pyref.Require(t, "python3-numpy", "numpy")
+	const g = 7.8
 	c := testLambdaNm * g * g / 2
 	nu := 0.34
-	type geom struct {
-		name   string
-		f      Displacement
-		factor float64 // |x|·2π|s|/g·b
-		alongY bool
+	type run struct {
+		name        string
+		kind        string
+		gb          float64
+		n, beams    int // g(ng); 0 beams: two-beam
+		s, rule     float64
+		side        float64 // sign of u on the rule's side, by the field
+		us, df      []float64
+		bg          float64
+		ref, refKin int // the numpy cases
 	}
-	geoms := []geom{
-		// Screw along x (along g), b along the line: g·b = 2.
-		{"screw", newLineField(r3.Vec{Z: 50}, r3.Vec{X: 1}, 2/g, 0), 1, true},
-		// Edge along y, b along −x: |g·b| = 2.
-		{"edge", &lineField{at: r3.Vec{Z: 50}, u: r3.Vec{Y: 1}, e1: r3.Vec{X: -1}, e2: r3.Vec{Z: 1}, bEdge: 2 / g, nu: nu},
-			1 + 1/(2*(1-nu)), false},
-	}
-	for _, gm := range geoms {
-		for _, wb := range []struct{ n, order int }{{3, 3}, {4, 4}} { // g(3g), 7 beams; g(4g), 9 beams
-			s := float64(wb.n-1) * c
-			rule := 2 * gm.factor / (2 * math.Pi * s)
-			p, w := weakBeamPeak(t, gm.f, wb.order, s, g, 1.1*rule, gm.alongY)
-			// The side on which s + g·dR/dz = 0 at the core's depth.
-			at := func(u float64) r3.Vec {
-				if gm.alongY {
-					return r3.Vec{Y: u, Z: 50}
+	var runs []run
+	var cases []pyref.WeakBeamCase
+	for _, gb := range []float64{2, 1} {
+		for _, kind := range []string{"screw", "edge"} {
+			// Screw along x (along g), b along the line; edge along y, b
+			// along −x, its glide plane the foil plane.
+			f := Displacement(newLineField(r3.Vec{Z: 50}, r3.Vec{X: 1}, gb/g, 0))
+			factor, alongY := 1.0, true
+			if kind == "edge" {
+				f = &lineField{at: r3.Vec{Z: 50}, u: r3.Vec{Y: 1}, e1: r3.Vec{X: -1}, e2: r3.Vec{Z: 1}, bEdge: gb / g, nu: nu}
+				factor, alongY = 1+1/(2*(1-nu)), false
+			}
+			for _, n := range []int{3, 4} {
+				s := float64(n-1) * c
+				rule := gb * factor / (2 * math.Pi * s)
+				var us []float64
+				for u := -2.5*rule + 0.05; u < 2.5*rule; u += 0.1 {
+					us = append(us, u)
 				}
-				return r3.Vec{X: u, Z: 50}
+				at := func(u float64) r3.Vec {
+					if alongY {
+						return r3.Vec{Y: u, Z: 50}
+					}
+					return r3.Vec{X: u, Z: 50}
+				}
+				dz := func(u float64) float64 {
+					a, b := at(u), at(u)
+					a.Z -= 1e-4
+					b.Z += 1e-4
+					return g * (f.R(b).X - f.R(a).X) / 2e-4
+				}
+				side := 1.0
+				if math.Abs(s+dz(-rule)) < math.Abs(s+dz(rule)) {
+					side = -1
+				}
+				// numpy's columns: its rule lies at x = −g·b·factor/(2πs),
+				// so Go's u maps to x = −side·u.
+				xs := make([]float64, len(us))
+				for i, u := range us {
+					xs[i] = -side * u
+				}
+				for _, beams := range []int{0, n} {
+					if gb == 1 && beams > 0 {
+						continue // the two-beam and kinematical cases only, for time
+					}
+					r := run{kind: kind, gb: gb, n: n, beams: beams, s: s, rule: rule, side: side, us: us}
+					r.name = fmt.Sprintf("%s g·b=%g g(%dg) two-beam", kind, gb, n)
+					if beams > 0 {
+						r.name = fmt.Sprintf("%s g·b=%g g(%dg) %d beams", kind, gb, n, 2*beams+1)
+					}
+					r.df, r.bg = weakBeamProfile(weakBeamModel(beams, s, g), f, g, us, alongY)
+					pc := pyref.WeakBeamCase{Kind: kind, GB: gb, Nu: nu, S1: s, LambdaNm: testLambdaNm, GPerNm: g,
+						N: max(beams, 1), TwoBeam: beams == 0, ThicknessNm: []float64{100}, XNm: xs, StepNm: 0.1}
+					for h := 1; h <= 2*pc.N; h++ {
+						pc.SetXi(h, 1.5*testXi(h), 1.5*testXi(h)/0.1)
+					}
+					pc.Xi0Abs = 1.5 * testXi(1) / 0.1
+					r.ref = len(cases)
+					cases = append(cases, pc)
+					if beams == 0 {
+						pc.Kinematical, pc.TwoBeam = true, false
+						r.refKin = len(cases)
+						cases = append(cases, pc)
+					}
+					runs = append(runs, r)
+				}
 			}
-			side := 1.0
-			dz := func(u float64) float64 {
-				a, b := at(u), at(u)
-				a.Z -= 1e-4
-				b.Z += 1e-4
-				return g * (gm.f.R(b).X - gm.f.R(a).X) / 2e-4
+		}
+	}
+	ref := pyref.WeakBeam(t, cases)
+	kinClosed := map[float64]float64{2: 0.5, 1: 0.315} // screw, see above
+	for _, r := range runs {
+		np := ref[r.ref]
+		// Go's columns as distances toward the rule's side.
+		vs := make([]float64, len(r.us))
+		for i, u := range r.us {
+			vs[i] = u * r.side
+		}
+		worst, where := 0.0, 0.0
+		for i := range r.df {
+			if math.Abs(r.us[i]) < 0.3 {
+				continue
 			}
-			if math.Abs(s+dz(-rule)) < math.Abs(s+dz(rule)) {
-				side = -1
+			if d := math.Abs(r.df[i] - np.DF[i]); d > worst {
+				worst, where = d, vs[i]
 			}
-			t.Logf("%s g(%dg), s %.3f /nm: peak at %.2f nm, s + g·dR/dz = 0 at %.2f nm; FWHM %.2f nm", gm.name, wb.n, s, p, side*rule, w)
-			if p*side <= 0 || math.Abs(p) < 0.45*rule || math.Abs(p) > rule {
-				t.Errorf("%s g(%dg): peak at %.2f nm, want on the side of %.2f nm at 0.45–1.0 of it", gm.name, wb.n, p, side*rule)
+		}
+		p, _ := peakOf(vs, r.df, r.bg, nil)
+		pn, _ := peakOf(vs, np.DF, np.Background, nil)
+		near, w := peakOf(vs, r.df, r.bg, func(v float64) bool { return v > 0 && v <= 1.1*r.rule })
+		t.Logf("%s, s %.3f /nm: rule %.2f nm; peak at %+.3f nm (numpy %+.3f), %.2f of the rule; near-core peak %+.3f nm (%.2f), FWHM %.2f nm; profiles differ by ≤ %.1e (at %+.2f nm), peak %.1e, background %.1e",
+			r.name, r.s, r.rule, p, pn, p/r.rule, near, near/r.rule, w, worst, where, np.PeakDF, r.bg)
+		if worst > 2e-5 {
+			t.Errorf("%s: the g beam differs from the numpy reference by %.2e at %+.2f nm from the core (tolerance 2e-5)", r.name, worst, where)
+		}
+		if math.Abs(p-pn) > 0.01 {
+			t.Errorf("%s: peak at %+.3f nm, numpy %+.3f nm", r.name, p, pn)
+		}
+		if r.beams == 0 {
+			kin := kinClosed[r.gb]
+			src := "the closed form"
+			if r.kind == "edge" {
+				kin, _ = peakOf(vs, ref[r.refKin].DF, ref[r.refKin].Background, nil)
+				kin /= r.rule
+				src = "the numpy kinematical integral"
 			}
-			if w < 0.5 || w > 3 {
-				t.Errorf("%s g(%dg): peak width %.2f nm, want 0.5–3 nm", gm.name, wb.n, w)
+			if math.Abs(p/r.rule-kin) > 0.03 {
+				t.Errorf("%s: peak at %.3f of the rule, %s %.3f (±0.03)", r.name, p/r.rule, src, kin)
 			}
+			continue
+		}
+		if near/r.rule < 0.45 || near/r.rule > 0.9 {
+			t.Errorf("%s: near-core peak at %+.2f nm, want on the rule's side at 0.45–0.9 of %.2f nm", r.name, near, r.rule)
+		}
+		if r.s >= 0.2 && (w < 0.5 || w > 3) {
+			t.Errorf("%s: near-core peak FWHM %.2f nm, want 0.5–3 nm", r.name, w)
 		}
 	}
 }
