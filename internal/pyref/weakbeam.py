@@ -19,7 +19,8 @@
 #   P_n(z) = exp(2 pi i (s_n z + n g.R(z))),
 # which stays exact however fast g.R turns near the core; the constant
 # coupling matrix C is exponentiated once (numpy.linalg.eig). One step:
-#   phi <- P(z+h) P(z+h/2)^-1 . e^{hC} . P(z+h/2) P(z)^-1 phi.
+#   phi <- P(z+h) P(z+h/2)^-1 . e^{hC} . P(z+h/2) P(z)^-1 phi
+# (carried as psi = P^-1 phi, which has the same intensities).
 # "kinematical": true instead evaluates the first-order amplitude
 #   phi_g = (pi i / xi_g) int_0^t exp(2 pi i (s z + g.R)) dz
 # (Hirsch et al. 1965, ch. 7) by the composite Simpson rule.
@@ -95,8 +96,8 @@ def expm(C, h):
 def run(d, h, x, foil):
     """g-beam intensity at the exit face, one row per (column, foil): x[r]
     the column (NaN: perfect crystal), foil[r] the index into
-    d["thickness_nm"]; every foil is cut into the same number of steps of
-    its own length, at most h."""
+    d["thickness_nm"], in increasing order; every foil is cut into the
+    same number of steps of its own length, at most h."""
     ns = beams(d)
     c = d["lambda_nm"] * d["g_nm"] ** 2 / 2
     s = ns * d["s1"] + ns * (1 - ns) * c
@@ -107,10 +108,18 @@ def run(d, h, x, foil):
     perfect = np.isnan(x)
     xx = np.where(perfect, 1.0, x)
 
+    def defect(z):
+        """exp(2 pi i n g.R(z)) for every beam n, by powers of one exponential."""
+        r = np.where(perfect, 0.0, gR(d["kind"], d["gb"], d["nu"], xx, z - z0))
+        e = np.exp(2j * np.pi * r)
+        pw = {0: np.ones_like(e)}
+        for m in range(1, int(np.abs(ns).max()) + 1):
+            pw[m] = pw[m - 1] * e
+            pw[-m] = np.conj(pw[m])
+        return np.stack([pw[int(n)] for n in ns], axis=1)
+
     def phase(z):
-        r = gR(d["kind"], d["gb"], d["nu"], xx, z - z0)
-        r = np.where(perfect, 0.0, r)
-        return np.exp(2j * np.pi * (s[None, :] * z[:, None] + ns[None, :] * r[:, None]))
+        return np.exp(2j * np.pi * s[None, :] * z[:, None]) * defect(z)
 
     k = int(np.ceil(ts.max() / h))
     if d.get("kinematical"):
@@ -125,17 +134,25 @@ def run(d, h, x, foil):
         return np.abs(amp) ** 2
     hr = t / k
     C = coupling(d, ns)
-    E = np.stack([expm(C, tk / k).T for tk in ts])[foil]  # phi rows times E^T
+    E = [expm(C, tk / k).T for tk in ts]  # phi rows times E^T
+    # rows of one foil are contiguous (see profile): slices, not copies
+    rows = [slice(int(np.searchsorted(foil, f)), int(np.searchsorted(foil, f, side="right"))) for f in range(len(ts))]
     phi = np.zeros((len(x), len(ns)), complex)
     phi[:, int(np.where(ns == 0)[0][0])] = 1
-    p0 = phase(0 * hr)
+    # P = exp(2 pi i s_n z) exp(2 pi i n g.R), |P| = 1. Carried in the
+    # interaction picture psi = conj(P) phi, one step is
+    #   psi <- conj(P(z+h/2)) e^{hC} P(z+h/2) psi,
+    # and |psi_n| = |phi_n| at the exit face. The first factor of P is
+    # advanced by a constant factor per step.
+    step = np.exp(2j * np.pi * s[None, :] * hr[:, None])
+    sz = np.exp(2j * np.pi * s[None, :] * (hr / 2)[:, None])
     for i in range(k):
-        z = i * hr
-        pm = phase(z + hr / 2)
-        p1 = phase(z + hr)
-        phi = np.matmul((phi / p0 * pm)[:, None, :], E)[:, 0, :]
-        phi = phi / pm * p1
-        p0 = p1
+        pm = sz * defect((i + 0.5) * hr)
+        q = phi * pm
+        for f, rf in enumerate(rows):
+            q[rf] = q[rf] @ E[f]
+        phi = q * np.conj(pm)
+        sz = sz * step
     return np.abs(phi[:, ig]) ** 2
 
 
@@ -144,11 +161,11 @@ def profile(d, h):
     the perfect crystal's, likewise averaged."""
     x = np.asarray(d["x_nm"], float)
     nf = len(d["thickness_nm"])
-    xs = np.concatenate([np.tile(x, nf), np.full(nf, np.nan)])
-    foil = np.concatenate([np.repeat(np.arange(nf), len(x)), np.arange(nf)])
-    v = run(d, h, xs, foil)
-    df = v[: nf * len(x)].reshape(nf, len(x)).mean(axis=0)
-    return x, df, float(v[nf * len(x):].mean())
+    # foil by foil: its columns, then a perfect-crystal column (NaN)
+    xs = np.tile(np.append(x, np.nan), nf)
+    foil = np.repeat(np.arange(nf), len(x) + 1)
+    v = run(d, h, xs, foil).reshape(nf, len(x) + 1)
+    return x, v[:, :-1].mean(axis=0), float(v[:, -1].mean())
 
 
 def peak(x, df, bg):
