@@ -52,12 +52,14 @@ import (
 // against its own model's beat, as Samples.Replay does, and a failure is
 // an error (the interval is wider than the samples serve).
 //
-// Memory: during the build (N+1)·beams·8 bytes per column (2N+1 while
-// doubling), kept: the coefficients up to the last one that matters,
-// L·beams·8 bytes per column (on the demo scene at 256², N = 20, two
-// beams: (2·20+1)·2·8 = 656 bytes per column while building, 13
-// coefficients or 208 bytes per column kept, 14 MB at 256²).
-// STableOptions.MaxBytes caps the build.
+// Memory: the build holds the values at the points, (N+1)·beams·8 bytes
+// per column, and while doubling those of the previous set too; before
+// each set the cap (STableOptions.MaxBytes) is checked against
+// (2N+1)·beams·8 bytes per column, more than both. The table keeps the
+// coefficients up to the last one that matters, L·beams·8 bytes per
+// column. On the demo scene over s ± 0.01 /nm (two beams, N = 20): at
+// most 512 bytes per column while building, 13 coefficients or 208 bytes
+// per column kept (14 MB at 256²).
 
 // DefaultSTableTail is the default bound on the tail of every column's
 // and beam's Chebyshev coefficients, in units of the incident intensity.
@@ -92,6 +94,10 @@ type STableOptions struct {
 	MaxDegree int
 	// MaxBytes caps the memory of the build (0: DefaultSTableBytes).
 	MaxBytes int64
+	// Wait, if not nil, is called by every worker before each row it
+	// replays and may block: the window holds a build there while it
+	// renders what the user asked for. It must return once ctx is done.
+	Wait func()
 }
 
 // STable holds every column's exit intensities as Chebyshev series in s
@@ -249,6 +255,9 @@ func TabulateS(ctx context.Context, smp *Samples, model func(s float64) Model, s
 			out := make([]float64, nb)
 			var steps []step
 			return func(j int) {
+				if opt.Wait != nil {
+					opt.Wait()
+				}
 				y := g.Y(j)
 				row, st := smp.rows[j], smp.starts[j]
 				for i := 0; i < g.NX; i++ {

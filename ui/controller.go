@@ -136,6 +136,10 @@ type Controller struct {
 	tableErr    error  // why the last build gave no table
 	tableBuild  time.Duration
 	onTable     []func()
+	// busy counts the renders, replays and table evaluations in flight:
+	// the table's build waits while any runs, so that what the user asked
+	// for gets the processors first.
+	busy atomic.Int32
 
 	onReplaced []func()
 	onBuilt    []func(st *scene.Setup, err error)
@@ -442,8 +446,10 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 	c.proceed = proceed
 	workers := c.Workers
 	post := c.Post
+	c.busy.Add(1)
 	go func() {
 		defer cancel()
+		defer c.busy.Add(-1)
 		if preview != nil {
 			t0 := time.Now()
 			im, err := render(ctx, preview, sim.Options{Workers: workers})
@@ -516,8 +522,10 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st *scene.Setup, gen uint64, changed time.Time, sMove bool) {
 	workers, post := c.Workers, c.Post
 	cancel := c.cancel
+	c.busy.Add(1)
 	go func() {
 		defer cancel()
+		defer c.busy.Add(-1)
 		t0 := time.Now()
 		im, err := export.Replay(ctx, s, st, sim.Options{Workers: workers})
 		if ctx.Err() != nil {
@@ -542,8 +550,10 @@ func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st 
 func (c *Controller) fromTable(ctx context.Context, job uint64, t *sim.STable, st *scene.Setup, gen uint64, changed time.Time) {
 	workers, post := c.Workers, c.Post
 	cancel := c.cancel
+	c.busy.Add(1)
 	go func() {
 		defer cancel()
+		defer c.busy.Add(-1)
 		t0 := time.Now()
 		im, err := export.FromTable(ctx, t, st, sim.Options{Workers: workers})
 		if ctx.Err() != nil {
@@ -560,7 +570,9 @@ func (c *Controller) fromTable(ctx context.Context, job uint64, t *sim.STable, s
 
 // buildTable starts building, off the UI goroutine, the s table of st's
 // conditions over the s range the samples serve (export.NearbyRange of
-// the setup they were recorded for), if st's s lies inside it.
+// the setup they were recorded for), if st's s lies inside it. The build
+// pauses between rows while a render, replay or table evaluation is in
+// flight (see busy).
 func (c *Controller) buildTable(s *sim.Samples, st *scene.Setup) {
 	lo, hi, ok := export.NearbyRange(c.samplesSetup)
 	cur, _, ok2 := export.SModel(st)
@@ -572,10 +584,15 @@ func (c *Controller) buildTable(s *sim.Samples, st *scene.Setup) {
 	id := c.tableJob
 	c.tableSetup, c.tableCancel, c.tableErr = st, cancel, nil
 	workers, post := c.Workers, c.Post
+	wait := func() {
+		for c.busy.Load() > 0 && ctx.Err() == nil {
+			time.Sleep(2 * time.Millisecond)
+		}
+	}
 	go func() {
 		defer cancel()
 		t0 := time.Now()
-		t, err := export.TabulateS(ctx, s, st, lo, hi, sim.STableOptions{Options: sim.Options{Workers: workers}})
+		t, err := export.TabulateS(ctx, s, st, lo, hi, sim.STableOptions{Options: sim.Options{Workers: workers}, Wait: wait})
 		took := time.Since(t0)
 		if ctx.Err() != nil {
 			return
