@@ -538,7 +538,9 @@ func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st 
 		r := &Result{Setup: st, Image: im, Source: SourceReplay, Elapsed: time.Since(t0), Gen: gen}
 		post(func() {
 			c.deliver(job, r, changed)
-			if sMove && job == c.job && c.table == nil && c.tableCancel == nil && c.samples == s {
+			// Not again after a build for these conditions failed (its
+			// error stays until a change other than s drops it).
+			if sMove && job == c.job && c.table == nil && c.tableCancel == nil && c.tableErr == nil && c.samples == s {
 				c.buildTable(s, st)
 			}
 		})
@@ -583,6 +585,9 @@ func (c *Controller) buildTable(s *sim.Samples, st *scene.Setup) {
 	c.tableJob++
 	id := c.tableJob
 	c.tableSetup, c.tableCancel, c.tableErr = st, cancel, nil
+	for _, f := range c.onTable {
+		f()
+	}
 	workers, post := c.Workers, c.Post
 	wait := func() {
 		for c.busy.Load() > 0 && ctx.Err() == nil {

@@ -87,3 +87,37 @@ func TestSTableInWindow(t *testing.T) {
 	}
 	c.Close()
 }
+
+// The status line says how each full image was made: rendered, replayed
+// from the field samples (and the s table being built), or evaluated from
+// the s table (with its range and estimated error); never "Full render"
+// for an image that was not rendered.
+func TestStatusSaysWhereImageCameFrom(t *testing.T) {
+	ws, p := newTestWorkspace(t, nil)
+	c := ws.ctrl
+	timing := func() string { return ws.status.Timing.Text }
+	if txt := timing(); !strings.HasPrefix(txt, "Full render 100 × 100") {
+		t.Errorf("after the first render: %q", txt)
+	}
+	setS := func(s float64) {
+		t.Helper()
+		if err := c.Edit(func(sc *scene.Scene) { sc.Diffraction.SPerNm = &s }); err != nil {
+			t.Fatal(err)
+		}
+		p.until(t, 60*time.Second, "the full image", func() bool { return c.LastFull() != nil && c.LastFull().Gen == c.Gen() })
+	}
+	setS(0.007)
+	if txt := timing(); !strings.HasPrefix(txt, "Full image 100 × 100 replayed from the field samples") ||
+		!strings.Contains(txt, "building the s table") {
+		t.Errorf("after the first s move: %q", txt)
+	}
+	p.until(t, 120*time.Second, "the s table", func() bool { _, building, _ := c.STable(); return !building })
+	if txt := timing(); !strings.Contains(txt, "s table ready for s -0.0050 to 0.0150 /nm") {
+		t.Errorf("once the table is built: %q", txt)
+	}
+	setS(0.009)
+	if txt := timing(); !strings.HasPrefix(txt, "Full image 100 × 100 from the s table (s -0.0050 to 0.0150 /nm, estimated within") {
+		t.Errorf("after an s move served by the table: %q", txt)
+	}
+	c.Close()
+}

@@ -108,8 +108,13 @@ func statusPanel(ws *Workspace) fyne.CanvasObject {
 		if s.preview > 0 {
 			text += fmt.Sprintf("   (preview after %s)", ms(s.preview))
 		}
-		s.Timing.SetText(text)
+		s.Timing.SetText(text + tableNote(c))
 		s.preview = 0
+	})
+	c.OnTable(func() {
+		if r := c.LastFull(); r != nil && r.Gen == c.Gen() && !c.Rendering() {
+			s.Timing.SetText(fullText(r) + tableNote(c))
+		}
 	})
 	c.OnFailed(func(err error) {
 		s.Message.Importance = widget.DangerImportance
@@ -134,6 +139,22 @@ func fullText(r *Result) string {
 			g.NX, g.NY, lo, hi, r.Table.ErrorEstimate(), ms(r.Elapsed))
 	}
 	return fmt.Sprintf("Full render %d × %d: %s", g.NX, g.NY, ms(r.Elapsed))
+}
+
+// tableNote says what became of the s table after a change of s alone:
+// being built, built (its range and cost), or why there is none.
+func tableNote(c *Controller) string {
+	t, building, err := c.STable()
+	switch {
+	case building:
+		return " · building the s table for the next s moves…"
+	case err != nil:
+		return " · no s table (" + err.Error() + "); s moves are replayed"
+	case t != nil:
+		lo, hi := t.Range()
+		return fmt.Sprintf(" · s table ready for s %.4f to %.4f /nm (%d replays, %s)", lo, hi, t.Replays(), ms(c.STableBuildTime()))
+	}
+	return ""
 }
 
 // ms writes a duration in milliseconds, or seconds from 10 s on.
