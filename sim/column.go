@@ -76,6 +76,9 @@ type column struct {
 	// also are the steppers of further models whose beats also limit the
 	// slabs (Record for several models).
 	also []Stepper
+	// check says whether replay re-checks each recorded slab with the
+	// model's beat.
+	check bool
 }
 
 // newColumn returns a column integrator for p; phase is g·R of p.Field

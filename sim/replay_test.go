@@ -3,6 +3,7 @@ package sim
 import (
 	"context"
 	"errors"
+	"math"
 	"testing"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -65,6 +66,64 @@ func TestRecordCap(t *testing.T) {
 		for n := range im.Intensity[k] {
 			if im.Intensity[k][n] != want.Intensity[k][n] {
 				t.Fatalf("fallback image differs from a render at beam %d pixel %d", k, n)
+			}
+		}
+	}
+}
+
+// partSlab is exact for a g·R that is a cubic in depth: the part of the
+// slab has the rise and the departures at its own Gauss nodes that the
+// cubic gives directly.
+func TestPartSlabExactForCubic(t *testing.T) {
+	gam := func(z float64) float64 { return 0.3 + 0.02*z - 4e-4*z*z + 7e-6*z*z*z }
+	samples := func(z0, h float64) (rise, d1, d2 float64) {
+		rise = gam(z0+h) - gam(z0)
+		d1 = gam(z0+gaussNodes[0]*h) - gam(z0) - gaussNodes[0]*rise
+		d2 = gam(z0+gaussNodes[1]*h) - gam(z0) - gaussNodes[1]*rise
+		return
+	}
+	const z0, h = 3.0, 12.0
+	rise, d1, d2 := samples(z0, h)
+	for _, f := range []float64{0.05, 0.3, 0.5, 0.77, 1} {
+		ph, pr, e1, e2 := partSlab(h, rise, d1, d2, f)
+		wr, w1, w2 := samples(z0, f*h)
+		if math.Abs(ph-f*h) > 1e-12 || math.Abs(pr-wr) > 1e-13 || math.Abs(e1-w1) > 1e-13 || math.Abs(e2-w2) > 1e-13 {
+			t.Errorf("f = %g: part (%g, %g, %g, %g), direct (%g, %g, %g, %g)", f, ph, pr, e1, e2, f*h, wr, w1, w2)
+		}
+	}
+}
+
+// beatWithin: a two-beam model between the recorded s with the same ξ_g
+// needs no re-check; one outside them, with a shorter ξ_g or of another
+// type does.
+func TestBeatWithin(t *testing.T) {
+	rec := []Model{TwoBeam{SPerNm: 0.004, XiGNm: 40}, TwoBeam{SPerNm: -0.006, XiGNm: 40}, TwoBeam{SPerNm: 0.014, XiGNm: 40}}
+	for _, c := range []struct {
+		m    Model
+		want bool
+	}{
+		{TwoBeam{SPerNm: 0.004, XiGNm: 40}, true},
+		{TwoBeam{SPerNm: 0.013, XiGNm: 40, XiGAbsNm: 300}, true},
+		{TwoBeam{SPerNm: 0.0, XiGNm: 45}, true},
+		{TwoBeam{SPerNm: 0.015, XiGNm: 40}, false},
+		{TwoBeam{SPerNm: 0.004, XiGNm: 39}, false},
+		{Kinematical{SPerNm: 0.004, XiGNm: 40}, false},
+	} {
+		if got := beatWithin(c.m, rec); got != c.want {
+			t.Errorf("%+v: beatWithin %v, want %v", c.m, got, c.want)
+		}
+		// Where beatWithin holds, the beat is nowhere above the recorded
+		// ones'.
+		if beatWithin(c.m, rec) {
+			st := c.m.NewStepper()
+			for slope := -0.05; slope <= 0.05; slope += 0.001 {
+				top := 0.0
+				for _, r := range rec {
+					top = math.Max(top, r.NewStepper().Beat(slope))
+				}
+				if b := st.Beat(slope); b > top*(1+1e-15) {
+					t.Errorf("%+v: beat %g at slope %g above the recorded %g", c.m, b, slope, top)
+				}
 			}
 		}
 	}
