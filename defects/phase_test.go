@@ -129,21 +129,3 @@ func TestDissociatedAndSumPhaseMatchDirect(t *testing.T) {
 		}
 	}
 }
-
-// lnPos agrees with math.Log to 4e-16 relative (or absolute near x = 1)
-// from the core radius squared to beyond any image size.
-func TestLnPos(t *testing.T) {
-	rng := rand.New(rand.NewPCG(25, 26))
-	for range 200000 {
-		x := math.Exp(rng.Float64()*40 - 16)
-		want := math.Log(x)
-		if d := math.Abs(lnPos(x) - want); d > 4e-16*math.Max(1, math.Abs(want)) {
-			t.Fatalf("lnPos(%v) = %v, math.Log %v", x, lnPos(x), want)
-		}
-	}
-	for _, x := range []float64{1, 2, 0.5, 1e-6, 1 - 1e-16, 1 + 2e-16, math.E} {
-		if d := math.Abs(lnPos(x) - math.Log(x)); d > 4e-16*math.Max(1, math.Abs(math.Log(x))) {
-			t.Errorf("lnPos(%v) = %v, math.Log %v", x, lnPos(x), math.Log(x))
-		}
-	}
-}
