@@ -20,7 +20,8 @@ const coreRadiusNm = 1e-3
 // x' < 0, i.e. along the cut direction. See the package documentation.
 type Dislocation struct {
 	at, u, b r3.Vec
-	ex, ey   r3.Vec // dislocation frame: x', y'; u completes it
+	ex, ey   r3.Vec  // dislocation frame: x', y'; u completes it
+	cx, cy   float64 // ex·at, ey·at: x' = ex·p − cx (see frame)
 	cut      halfPlane
 	iso      *isoEdgeScrew
 	stroh    *strohField
@@ -68,6 +69,7 @@ func newDislocation(b, line, at r3.Vec, cutDir *r3.Vec, m Medium, anisotropic bo
 		ey:  r3.Cross(u, ex),
 		cut: newHalfPlane(at, u, e),
 	}
+	d.cx, d.cy = r3.Dot(d.ex, at), r3.Dot(d.ey, at)
 	bl := r3.Vec{X: r3.Dot(b, d.ex), Y: r3.Dot(b, d.ey), Z: r3.Dot(b, u)}
 	if anisotropic {
 		if err := checkStiffness(m.C); err != nil {
@@ -104,9 +106,18 @@ func (d *Dislocation) Elasticity() string {
 
 // R returns the displacement (nm) at p (nm), both in the image frame.
 func (d *Dislocation) R(p r3.Vec) r3.Vec {
-	q := r3.Sub(p, d.at)
-	l := d.local(r3.Dot(q, d.ex), r3.Dot(q, d.ey))
+	l := d.local(d.frame(p))
 	return r3.Add(r3.Add(r3.Scale(l.X, d.ex), r3.Scale(l.Y, d.ey)), r3.Scale(l.Z, d.u))
+}
+
+// frame returns the dislocation-frame coordinates (x', y') of p:
+// x' = ex·p − ex·at, y' = ey·p − ey·at, in this order of operations, which
+// the fast path (phaseSum.phase) repeats to the bit, and which lets the
+// partials of a dissociated dislocation, whose frames are the same, share
+// ex·p and ey·p there. Where the direction of (x', y') is rounding noise
+// (within ~1e-13 nm of the line, inside the core) both take the same one.
+func (d *Dislocation) frame(p r3.Vec) (x, y float64) {
+	return p.X*d.ex.X + p.Y*d.ex.Y + p.Z*d.ex.Z - d.cx, p.X*d.ey.X + p.Y*d.ey.Y + p.Z*d.ey.Z - d.cy
 }
 
 // local is the displacement in the dislocation frame at (x', y').

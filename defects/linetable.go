@@ -34,15 +34,19 @@ const (
 )
 
 // lineTable evaluates g·R = k·ln r² + F(ψ) for one straight dislocation
-// and one g: x' = ex·(p − at), y' = ey·(p − at), the rotation of g into the
-// dislocation frame and the constants folded into k and F. (x', y') are
-// rounded as in Dislocation.R, so even on the line itself, where the
-// direction is rounding noise, both give the same value.
+// and one g: x' = ex·p − cx, y' = ey·p − cy (Dislocation.frame), the
+// rotation of g into the dislocation frame and the constants folded into
+// k and F. (x', y') are rounded as in Dislocation.R, so even on the line
+// itself, where the direction is rounding noise, both give the same value.
 type lineTable struct {
-	at, ex, ey r3.Vec
-	k          float64
-	n          float64 // intervals per unit of ψ, a power of two
-	last       uint    // index of the last entry of poly (4n)
+	ex, ey r3.Vec
+	cx, cy float64
+	// shared: ex and ey are those of the line before it in a phaseSum,
+	// so ex·p and ey·p are too.
+	shared bool
+	k      float64
+	n      float64 // intervals per unit of ψ, a power of two
+	last   uint    // index of the last entry of poly (4n)
 	// poly holds F on interval i as c0 + t(c1 + t(c2 + t c3)),
 	// t ∈ [0, 1], and, as entry 4n, F(2) alone (c1 = c2 = c3 = 0) for
 	// ψ = 2 exactly.
@@ -84,10 +88,10 @@ func direction(psi float64) (x, y float64) {
 }
 
 // newLineTable tabulates g·R of the field gr(x', y') (cycles, as a
-// function of the dislocation-frame coordinates) of the line through at
-// with frame ex, ey. It returns nil if no table up to angularMaxNodes
+// function of the dislocation-frame coordinates) of the line with frame
+// ex, ey, cx, cy (see Dislocation.frame). It returns nil if no table up to angularMaxNodes
 // nodes per quadrant meets angularTol; the caller then evaluates directly.
-func newLineTable(gr func(x, y float64) float64, at, ex, ey r3.Vec) *lineTable {
+func newLineTable(gr func(x, y float64) float64, ex, ey r3.Vec, cx, cy float64) *lineTable {
 	// k: g·R at r² = e and r² = 1 in the same direction differ by k.
 	se := math.Sqrt(math.E)
 	k := 0.0
@@ -101,7 +105,7 @@ func newLineTable(gr func(x, y float64) float64, at, ex, ey r3.Vec) *lineTable {
 		return gr(x/r, y/r)
 	}
 	for n := angularMinNodes; n <= angularMaxNodes; {
-		l := &lineTable{at: at, ex: ex, ey: ey, k: k,
+		l := &lineTable{ex: ex, ey: ey, cx: cx, cy: cy, k: k,
 			n: float64(n), last: uint(4 * n), poly: make([][4]float64, 4*n+1)}
 		h := 1 / float64(n)
 		val := make([]float64, 4*n+1)

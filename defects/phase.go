@@ -69,34 +69,42 @@ func phaseOf(g r3.Vec, fs ...Field) func(p r3.Vec) float64 {
 // The bodies of the line and inclusion terms are written out in their
 // loops rather than called (a call costs about as much again as a line:
 // every live register is saved around it). A line (see lineTable) is
-// g·R = k ln r² + F(ψ), with (x', y') rounded as in Dislocation.R. The
+// g·R = k ln r² + F(ψ), (x', y') rounded as in Dislocation.frame, ex·p
+// and ey·p shared with the line before when the frames are the same. The
 // pseudo-angle is read as the table coordinate u = (ψ + 2)·n directly:
 // with q = n·y'/(|x'| + |y'|) ∈ [−n, n] (n a power of two, so n·y' is
 // exact), u = 2n + q for x' ≥ 0, 4n − q for x' < 0 ≤ y', −q for x' < 0,
-// y' < 0 (y' = −0 included: the side θ = −π of the cut). u lies in
-// [0, 4n] for every finite input; NaN ends at the last entry rather than
-// outside the table. On the line itself (x' = y' = 0) the added 1e-300
-// keeps q = 0: the direction +x', as Dislocation.R takes it there.
+// y' < 0 (y' = −0 included: the side θ = −π of the cut); the four sign
+// cases spell out |x'| + |y'|. u lies in [0, 4n] for every finite input;
+// NaN ends at the last entry rather than outside the table. On the line
+// itself (x' = y' = 0) the added 1e-300 keeps q = 0: the direction +x',
+// as Dislocation.R takes it there.
 func (s *phaseSum) phase(p r3.Vec) float64 {
 	v := 0.0
+	var px, py float64 // ex·p, ey·p of the last line
 	for k := range s.lines {
 		l := &s.lines[k]
-		qx, qy, qz := p.X-l.at.X, p.Y-l.at.Y, p.Z-l.at.Z
-		x := qx*l.ex.X + qy*l.ex.Y + qz*l.ex.Z
-		y := qx*l.ey.X + qy*l.ey.Y + qz*l.ey.Z
+		if !l.shared {
+			px = p.X*l.ex.X + p.Y*l.ex.Y + p.Z*l.ex.Z
+			py = p.X*l.ey.X + p.Y*l.ey.Y + p.Z*l.ey.Z
+		}
+		x, y := px-l.cx, py-l.cy
 		r2 := x*x + y*y
 		if r2 < coreR2Nm2 {
 			r2 = coreR2Nm2
 		}
-		q := l.n * y / (math.Abs(x) + math.Abs(y) + 1e-300)
 		var u float64
 		switch {
 		case !(x < 0):
-			u = 2*l.n + q
+			if y >= 0 {
+				u = 2*l.n + l.n*y/(x+y+1e-300)
+			} else {
+				u = 2*l.n + l.n*y/(x-y)
+			}
 		case math.Signbit(y):
-			u = -q
+			u = l.n * y / (x + y)
 		default:
-			u = 4*l.n - q
+			u = 4*l.n - l.n*y/(y-x)
 		}
 		i := int(u)
 		if uint(i) > l.last {
@@ -128,6 +136,9 @@ func (d *Dislocation) Phase(g r3.Vec) func(p r3.Vec) float64 { return phaseOf(g,
 
 func (d *Dislocation) addPhase(g r3.Vec, s *phaseSum) {
 	if l := d.table(g); l != nil {
+		if n := len(s.lines); n > 0 && s.lines[n-1].ex == l.ex && s.lines[n-1].ey == l.ey {
+			l.shared = true
+		}
 		s.lines = append(s.lines, *l)
 		return
 	}
@@ -141,7 +152,7 @@ func (d *Dislocation) table(g r3.Vec) *lineTable {
 		l := d.local(x, y)
 		return gx*l.X + gy*l.Y + gu*l.Z
 	}
-	return newLineTable(gr, d.at, d.ex, d.ey)
+	return newLineTable(gr, d.ex, d.ey, d.cx, d.cy)
 }
 
 // Phase implements Phaser: the sum of the partials' tables.
