@@ -139,6 +139,11 @@ func (m SystematicRow) NewStepper() Stepper {
 		f:    make([]complex128, nb*nb),
 		w:    make([]complex128, 3*nb),
 		ph:   make([]complex128, 2*(4*n+1)),
+		mom:  make([]float64, blochSeriesTerms),
+		lam:  make([]complex128, nb),
+		eps:  make([]complex128, nb),
+		einv: make([]complex128, nb),
+		om:   make([]complex128, nb*nb),
 	}
 	for h := -2 * n; h <= 2*n; h++ {
 		if h == 0 {
@@ -170,6 +175,13 @@ type rowStepper struct {
 	w        []complex128 // scratch vectors
 	ph       []complex128 // phase factors for the two Gauss nodes
 	eig      []*rowEigen  // perfect-crystal decompositions by slope
+	// kept are the Bloch waves by grid slope (see rowbloch.go), with the
+	// scratch space of that step.
+	kept      map[int64]*rowBloch
+	mom       []float64
+	lam       []complex128
+	eps, einv []complex128
+	om        []complex128
 }
 
 func (st *rowStepper) Start(psi []complex128) {
@@ -187,17 +199,29 @@ func (st *rowStepper) Start(psi []complex128) {
 //	M_nm = q_{n−m} exp(2πi (m − n) δ(z))   (m ≠ n)
 //
 // For δ ≡ 0 (a perfect crystal with shifted excitation errors) the slab is
-// exp(h·M) applied exactly; otherwise the fourth-order commutator-free
-// Magnus integrator of Blanes & Moan (2006) with M at the two
-// Gauss–Legendre nodes. The exponentials are applied to the vector by a
-// truncated Taylor series with scaling (Al-Mohy & Higham 2011, SIAM J. Sci.
-// Comput. 33, 488), or, for a long perfect-crystal slab, by the
-// eigen-decomposition of M (the Bloch waves), kept for reuse.
+// exp(h·M) applied exactly, by a truncated Taylor series with scaling
+// (Al-Mohy & Higham 2011, SIAM J. Sci. Comput. 33, 488) or, for a long
+// slab, by the eigen-decomposition of M (the Bloch waves), kept for reuse.
+// Otherwise the slab is taken in the basis of the Bloch waves at the
+// rounded chord slope, with the departure in the interaction picture
+// (crystalBloch, rowbloch.go); where that step is out of its reach, by
+// the fourth-order commutator-free Magnus integrator of Blanes & Moan
+// (2006) with M at the two Gauss–Legendre nodes and the exponentials by
+// Taylor series (crystalMagnus).
 func (st *rowStepper) Crystal(psi []complex128, h, slope, d1, d2 float64) {
 	if d1 == 0 && d2 == 0 {
 		st.perfect(psi, h, slope)
 		return
 	}
+	if st.crystalBloch(psi, h, slope, d1, d2) {
+		return
+	}
+	st.crystalMagnus(psi, h, slope, d1, d2)
+}
+
+// crystalMagnus is the fourth-order commutator-free Magnus step of Crystal
+// with the exponentials by Taylor series.
+func (st *rowStepper) crystalMagnus(psi []complex128, h, slope, d1, d2 float64) {
 	n2 := 2 * st.half
 	nq := 2*n2 + 1
 	// Powers of the node phases: e_k^j = exp(2πi j d_k), j = −2N…2N.

@@ -602,3 +602,42 @@ func TestRowWeakBeamPeakPosition(t *testing.T) {
 		}
 	}
 }
+
+func TestRowWeakBeamDefaultToleranceAgainstConverged(t *testing.T) {
+	// The 7-beam weak-beam render g(3g) of an inclined mixed dislocation
+	// and a coherent inclusion (the scene of BenchmarkRowRender) at the
+	// default tolerance, against the same render converged (tolerance /100,
+	// itself checked by halving it again): every pixel of every beam within
+	// 1e-4 of the incident intensity, the accuracy DefaultTolerance states.
+	p := benchRowProblem(40)
+	m := p.Model.(SystematicRow)
+	m.SPerNm = RowExcitation(3, 0.002508*4.9*4.9, 0.002508, 4.9) // s_g = λg²: 3g at Bragg
+	p.Model = m
+	render := func(tol float64) *Image {
+		q := *p
+		q.Tolerance = tol
+		im, err := Render(context.Background(), &q, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return im
+	}
+	worst := func(a, b *Image) float64 {
+		w := 0.0
+		for k := range a.Intensity {
+			for i := range a.Intensity[k] {
+				w = math.Max(w, math.Abs(a.Intensity[k][i]-b.Intensity[k][i]))
+			}
+		}
+		return w
+	}
+	got, ref, finer := render(0), render(DefaultTolerance/100), render(DefaultTolerance/200)
+	if c := worst(ref, finer); c > 1e-6 {
+		t.Fatalf("reference not converged: halving its tolerance moves an intensity by %.2g", c)
+	}
+	w := worst(got, ref)
+	t.Logf("7 beams, g(3g), 40² pixels: largest difference from converged %.2e", w)
+	if w > 1e-4 {
+		t.Errorf("a pixel is %.3g from converged, more than 1e-4", w)
+	}
+}
