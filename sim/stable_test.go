@@ -131,6 +131,43 @@ func TestSTable(t *testing.T) {
 			t.Errorf("s = %g: table differs from a replay by %.3g", s, worst)
 		}
 	}
+	// Against the function the table interpolates (the same fixed steps
+	// replayed at s), the error is within the estimate.
+	rng := rand.New(rand.NewPCG(3, 4))
+	pt := *p
+	pt.Model = model((lo + hi) / 2)
+	prep := newColumn(&pt, smp.phase)
+	prep.st = model(lo).NewStepper()
+	prep.also = []Stepper{model((lo + hi) / 2).NewStepper(), model(hi).NewStepper()}
+	worst := 0.0
+	for k := 0; k < 10; k++ {
+		s := lo + (hi-lo)*rng.Float64()
+		im, err := a.Image(ctx, s, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		st := model(s).NewStepper()
+		psi, out := make([]complex128, 2), make([]float64, 2)
+		g := p.Grid
+		var steps []step
+		for j := 0; j < g.NY; j++ {
+			for i := 0; i < g.NX; i++ {
+				row, starts := smp.rows[j], smp.starts[j]
+				steps, _ = prep.fixedSteps(g.X(i), g.Y(j), row[starts[i]:starts[i+1]], smp.gamma0[j*g.NX+i], steps)
+				if !applySteps(st, psi, steps, prep.tol) {
+					t.Fatalf("s = %g, column (%d, %d): a slab fails", s, i, j)
+				}
+				st.Intensities(psi, out)
+				for b := range out {
+					worst = math.Max(worst, math.Abs(out[b]-im.Intensity[b][j*g.NX+i]))
+				}
+			}
+		}
+	}
+	t.Logf("10 random s: within %.2g of the interpolated function, estimate %.2g", worst, a.ErrorEstimate())
+	if worst > a.ErrorEstimate() {
+		t.Errorf("table differs from the function it interpolates by %.3g, above its estimate %.3g", worst, a.ErrorEstimate())
+	}
 	for _, s := range []float64{lo - 1e-9, hi + 1e-9, math.NaN()} {
 		if _, err := a.Image(ctx, s, Options{}); !errors.Is(err, ErrSTableRange) {
 			t.Errorf("s = %g: error %v, want ErrSTableRange", s, err)

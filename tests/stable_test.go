@@ -3,6 +3,7 @@ package tests
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math/rand/v2"
 	"testing"
 
@@ -16,15 +17,16 @@ import (
 // 1e-5 of the incident beam and with a fresh render within 1e-4 (the
 // render's own promise against converged,
 // TestDefaultToleranceAgainstConverged), max over pixels and beams; an s
-// outside the range is refused. On the demo scene and the scene with every
-// defect type.
+// outside the range is refused. On the demo scene, the scene with every
+// defect type, and the demo scene twice as thick (more coefficients).
 func TestSTableAgreesWithReplay(t *testing.T) {
 	for _, c := range []struct {
 		path   string
 		nx, ny int
-	}{{"../assets/demo.json", 96, 96}, {"testdata/all_defects.json", 64, 64}} {
-		t.Run(c.path, func(t *testing.T) {
-			st := loadScene(t, c.path, c.nx, c.ny, 0)
+		t      float64
+	}{{"../assets/demo.json", 96, 96, 0}, {"testdata/all_defects.json", 64, 64, 0}, {"../assets/demo.json", 48, 48, 240}} {
+		t.Run(fmt.Sprintf("%s t=%g", c.path, c.t), func(t *testing.T) {
+			st := loadScene(t, c.path, c.nx, c.ny, c.t)
 			ctx := context.Background()
 			_, samples, err := export.Record(ctx, st, sim.Options{}, 1.25*st.Problem.ThicknessNm, export.NearbyModels(st))
 			if err != nil || samples == nil {

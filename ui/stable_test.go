@@ -116,7 +116,7 @@ func TestStatusSaysWhereImageCameFrom(t *testing.T) {
 		t.Errorf("once the table is built: %q", txt)
 	}
 	setS(0.009)
-	if txt := timing(); !strings.HasPrefix(txt, "Full image 100 × 100 from the s table (s -0.0050 to 0.0150 /nm, estimated within") {
+	if txt := timing(); !strings.HasPrefix(txt, "Full image 100 × 100 from the s table (s -0.0050 to 0.0150 /nm, series error estimated at") {
 		t.Errorf("after an s move served by the table: %q", txt)
 	}
 	c.Close()

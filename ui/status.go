@@ -135,7 +135,7 @@ func fullText(r *Result) string {
 		return fmt.Sprintf("Full image %d × %d replayed from the field samples: %s", g.NX, g.NY, ms(r.Elapsed))
 	case SourceTable:
 		lo, hi := r.Table.Range()
-		return fmt.Sprintf("Full image %d × %d from the s table (s %.4f to %.4f /nm, estimated within %.0e of a replay): %s",
+		return fmt.Sprintf("Full image %d × %d from the s table (s %.4f to %.4f /nm, series error estimated at %.0e): %s",
 			g.NX, g.NY, lo, hi, r.Table.ErrorEstimate(), ms(r.Elapsed))
 	}
 	return fmt.Sprintf("Full render %d × %d: %s", g.NX, g.NY, ms(r.Elapsed))
