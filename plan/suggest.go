@@ -53,6 +53,8 @@ func (p *Plan) suggest() {
 			what := fmt.Sprintf("weak beam g(%dg): s = %.3f /nm, w = %.1f; image peak %.2f nm from the core, %.2f nm wide", w.N, w.SPerNm, w.W, w.PeakNm, w.WidthNm)
 			if !math.IsNaN(w.MeasuredSepNm) {
 				what += fmt.Sprintf("; the partials' peaks %.2f nm apart for a projected separation of %.2f nm (multiply a measured width by %.2f)", w.MeasuredSepNm, w.ProjectedSepNm, w.ProjectedSepNm/w.MeasuredSepNm)
+			} else if !math.IsNaN(w.ProjectedSepNm) {
+				what += fmt.Sprintf("; the partials' images are not resolved here (projected separation %.2f nm)", w.ProjectedSepNm)
 			}
 			p.Suggestions = append(p.Suggestions, Suggestion{What: what,
 				Why: fmt.Sprintf("the smallest n with |s_g| ≥ %g /nm and |w| ≥ %g (common practice), so the image lies close to the core (Cockayne, Ray & Whelan 1969)", scene.WeakBeamMinSPerNm, float64(scene.WeakBeamMinW))})
