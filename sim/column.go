@@ -19,9 +19,10 @@ import (
 // about a cycle and stays bounded beyond (measured against sub-stepped
 // slabs, TestSlabErrorModel). A slab is accepted when e ≤ the tolerance
 // (in cycles); otherwise it is retried at the length predicted from e,
-// taking d ∝ h² and c ∝ h. The next slab's length is predicted the same
-// way from the accepted one (at most tripling), and the first slab of a
-// stretch holds firstCycles of the beat. With a perfect crystal the chord
+// taking d ∝ h² and c ∝ h (or, when that is at least reuseFrom of it, at
+// the slab's second Gauss node, where γ is known). The next slab's length
+// is predicted the same way from the accepted one (at most tripling), and
+// the first slab of a stretch holds firstCycles of the beat. With a perfect crystal the chord
 // is exact and the column is crossed in one closed-form slab.
 const (
 	// DefaultTolerance is the tolerance in cycles. With it the exit
@@ -44,6 +45,11 @@ const (
 	firstCycles = 0.5
 	// safety is the fraction of the tolerance a predicted slab aims at.
 	safety = 0.7
+	// reuseFrom: a rejected slab whose retry is predicted at least this
+	// fraction of its length is retried ending at its second Gauss node
+	// (0.789 of it), where γ is already known, saving one evaluation of
+	// the field (2.5 % of them on the demo scene).
+	reuseFrom = 0.75
 	// floorWeight weighs the departure of a slab that holds few beat
 	// cycles. The step is of fourth order, so a departure that is
 	// quadratic or cubic in depth costs little error there (≈ 12 c² per
@@ -200,21 +206,27 @@ func (c *column) segment(a, b, ga float64) float64 {
 	h := math.Min(b-a, firstCycles/c.beat(0))
 	for b-za > 1e-12 {
 		var gb, d1, d2, dep, cyc float64
+		known := math.NaN() // γ(za + h) when a rejected slab sampled it
 		for {
 			last := za+h >= b-1e-12
-			if last {
+			switch {
+			case last:
 				h = b - za
 				gb = c.gamma(b - inset)
-			} else {
+			case known == known:
+				gb = known
+			default:
 				gb = c.gamma(za + h)
 			}
 			d := gb - ga
-			d1 = c.gamma(za+gaussNodes[0]*h) - ga - gaussNodes[0]*d
-			d2 = c.gamma(za+gaussNodes[1]*h) - ga - gaussNodes[1]*d
+			g1 := c.gamma(za + gaussNodes[0]*h)
+			g2 := c.gamma(za + gaussNodes[1]*h)
+			d1 = g1 - ga - gaussNodes[0]*d
+			d2 = g2 - ga - gaussNodes[1]*d
 			dep = math.Max(math.Abs(d1), math.Abs(d2))
 			cyc = c.beat(d/h) * h
 			err := indicator(d1, d2, cyc)
-			if math.IsNaN(err) || math.IsInf(err, 0) {
+			if !(err <= math.MaxFloat64) { // NaN or +Inf
 				// The field is not finite here: poison the amplitudes so
 				// Render reports the column, and stop.
 				c.psi[0] = complex(math.NaN(), 0)
@@ -224,9 +236,16 @@ func (c *column) segment(a, b, ga float64) float64 {
 				break
 			}
 			c.nRejects++
-			h *= math.Max(0.1, math.Min(0.9, predict(dep, cyc, c.tol)))
+			r := math.Max(0.1, math.Min(0.9, predict(dep, cyc, c.tol)))
+			known = math.NaN()
+			if r >= reuseFrom {
+				// Retry ending at the second Gauss node, whose γ is known.
+				r, known = gaussNodes[1], g2
+			}
+			h *= r
 			if h < minSlabNm {
 				h = minSlabNm
+				known = math.NaN()
 			}
 		}
 		c.st.Crystal(c.psi, h, (gb-ga)/h, d1, d2)
