@@ -25,14 +25,17 @@
 // its width is the full width at half its height above the perfect
 // crystal's dark field. The image of each partial of a dissociated
 // dislocation lies off its core towards the side where s + g·dR/dz = 0,
-// within the distance g·b_p/(2π s) at which that happens on the column
+// near the distance g·b_p/(2π s) at which that happens on the column
 // through the core's depth (Cockayne, Ray & Whelan 1969, Phil. Mag. 20,
-// 1265; the computed peak lies at 0.3–0.8 of it, depending on g·b, the
-// beams, the thickness and the depth), so the separation of the two
+// 1265; the computed peak lies at 0.3–0.9 of it, and with many beams the
+// highest maximum sometimes beyond it, depending on g·b, the beams, the
+// thickness and the depth), so the separation of the two
 // peaks differs from the partials' projected separation. Each partial's
-// image is the highest maximum above the background within that distance
-// (plus a pixel) of its core; where one partial has none, or both take
-// the same maximum, the pair is reported unresolved. The ratio the planner
+// image is the highest maximum above the background within 2.5 times that
+// distance (plus a pixel) of its core (with the systematic row the highest
+// maximum can lie beyond the distance itself: reachFactor); where one
+// partial has none, or both take the same maximum, the pair is reported
+// unresolved. The ratio the planner
 // reports, projected over measured, is the correction to apply to a
 // measured width: the Cockayne–Ray–Whelan correction (so named, and
 // re-examined against image simulations, by Hemker 1997, Phil. Mag. A 76,

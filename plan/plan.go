@@ -90,6 +90,17 @@ type Plan struct {
 // Suggestion is a suggested condition and the reason for it.
 type Suggestion struct{ What, Why string }
 
+// reachFactor times the distance at which s + g·dR/dz = 0 on the column
+// through a partial's core bounds where its weak-beam image is sought. The
+// two-beam peak of a single dislocation lies inside that distance (0.3–0.6
+// of it), the many-beam one near the core at 0.5–0.9 of it, but with the
+// systematic row the highest maximum can lie further out: measured up to
+// 2.25 times it (sim.TestRowWeakBeamPeakPosition, 9 beams) and 1.4 times
+// it for each partial of a pair in g(3g)
+// (tests.TestWeakBeamDissociatedPairAgainstNumpy). 2.5 covers those, a
+// choice from those measurements, not from a source.
+const reachFactor = 2.5
+
 // minRise is the least height above the background, as a fraction of the
 // profile's highest, of a maximum taken for a partial's weak-beam image:
 // a choice of this program (not from a source), above the rounding-level
@@ -378,14 +389,16 @@ func (p *Plan) weakBeam(ctx context.Context, sc *scene.Scene, st *scene.Setup, b
 	}
 	proj := math.NaN()
 	sep := math.NaN()
-	// reach·/|s| bounds how far a partial's image lies from its core: the
-	// distance at which s + g·dR/dz = 0 on the column through the core's
-	// depth (Cockayne, Ray & Whelan 1969), |g·b_p|/(2π|s|) for a screw and
-	// (1 + 1/(2(1−ν))) times that for an edge (isotropic), the larger
-	// taken, for the partial with the larger |g·b_p|; the computed peak of
-	// a single dislocation lies inside it (0.3–0.8 of it for |g·b| = 1–2,
-	// sim.TestRowWeakBeamPeakPosition).
+	// reach/|s| is the distance from a core at which s + g·dR/dz = 0 on the
+	// column through the core's depth (Cockayne, Ray & Whelan 1969):
+	// |g·b_p|/(2π|s|) for a screw and (1 + 1/(2(1−ν))) times that for an
+	// edge (isotropic), the larger taken, for the partial with the larger
+	// |g·b_p|. A partial's image is sought within reachFactor times it on
+	// the side where s + g·dR/dz = 0, which is along sign((g·b_p)s)·(u × z)
+	// (the side rule of TestDislocationImageSide): sides[k] is that side
+	// along e1 for s > 0, 0 where it is not defined (g·b_p = 0).
 	reach := 0.0
+	var sides [2]float64
 	edge := 1 + 1/(2*(1-st.Crystal.Elastic.Poisson))
 	if len(cores) == 2 {
 		proj = math.Abs(cores[0] - cores[1])
@@ -394,10 +407,15 @@ func (p *Plan) weakBeam(ctx context.Context, sc *scene.Scene, st *scene.Setup, b
 		}
 		if fs, ok := st.Problem.Field.(defects.Sum); ok && index < len(fs) {
 			if d, ok := fs[index].(*defects.Dissociated); ok {
+				// The partials in the order of the outline's lines (cores).
 				lead, trail := d.Partials()
-				for _, b := range []r3.Vec{lead.BurgersNm(), trail.BurgersNm()} {
+				for k, pd := range []*defects.Dislocation{lead, trail} {
 					// The defects are built in the frame of g: x along g.
-					reach = math.Max(reach, edge*math.Abs(st.GPerNm*b.X)/(2*math.Pi))
+					gb := st.GPerNm * pd.BurgersNm().X
+					reach = math.Max(reach, edge*math.Abs(gb)/(2*math.Pi))
+					if side := r3.Dot(r3.Cross(pd.Line(), r3.Vec{Z: 1}), e1); math.Abs(gb) > 1e-6 && math.Abs(side) > 1e-6 {
+						sides[k] = math.Copysign(1, gb*side)
+					}
 				}
 			}
 		}
@@ -450,7 +468,8 @@ func (p *Plan) weakBeam(ctx context.Context, sc *scene.Scene, st *scene.Setup, b
 		pt.PeakNm, pt.WidthNm, pt.PeakIntensity = xs[ib], w, df[ib]
 		if len(cores) == 2 {
 			px := xs[1] - xs[0]
-			pt.MeasuredSepNm = twoPeaks(df, xs, bg, [2]float64{cores[0] - mid, cores[1] - mid}, reach/math.Abs(s)+px)
+			sg := math.Copysign(1, s)
+			pt.MeasuredSepNm = twoPeaks(df, xs, bg, [2]float64{cores[0] - mid, cores[1] - mid}, [2]float64{sg * sides[0], sg * sides[1]}, reachFactor*reach/math.Abs(s), px)
 		}
 		p.WeakBeam = append(p.WeakBeam, pt)
 	}
@@ -479,12 +498,13 @@ func peak(v, x []float64, bg float64) (int, float64) {
 
 // twoPeaks returns the distance between the images of two partials whose
 // cores lie at cores (positions along x): for each, the highest maximum of
-// v within reach of its core that stands above bg by at least
-// minRise of the profile's highest rise above bg. It is NaN when a
-// partial has no such maximum or both take the same one (the pair is not
-// resolved): a far maximum of the profile is not taken for a partial's
-// image.
-func twoPeaks(v, x []float64, bg float64, cores [2]float64, reach float64) float64 {
+// v that stands above bg by at least minRise of the profile's highest rise
+// above bg and lies within reach of its core on its side (sides: +1 or −1
+// along x, 0 for either), a pixel px allowed on the other. It is NaN when
+// a partial has no such maximum or both take the same one (the pair is
+// not resolved): a far maximum, or one on the wrong side, is not taken
+// for a partial's image.
+func twoPeaks(v, x []float64, bg float64, cores, sides [2]float64, reach, px float64) float64 {
 	top := bg
 	for _, y := range v {
 		top = math.Max(top, y)
@@ -495,7 +515,14 @@ func twoPeaks(v, x []float64, bg float64, cores [2]float64, reach float64) float
 			continue
 		}
 		for k, c := range cores {
-			if math.Abs(x[i]-c) <= reach && (best[k] < 0 || v[i] > v[best[k]]) {
+			lo, hi := -reach-px, reach+px
+			switch {
+			case sides[k] > 0:
+				lo = -px
+			case sides[k] < 0:
+				hi = px
+			}
+			if d := x[i] - c; d >= lo && d <= hi && (best[k] < 0 || v[i] > v[best[k]]) {
 				best[k] = i
 			}
 		}

@@ -22,8 +22,12 @@ var weakBeamScript string
 // nil or 0 for none), the foils (averaged), the columns (nm from the core,
 // measured along b for the edge) and the largest integration step.
 type WeakBeamCase struct {
-	Kind        string             `json:"kind"`
-	GB          float64            `json:"gb"`
+	Kind string  `json:"kind"`
+	GB   float64 `json:"gb"`
+	// Cores, when set, replaces the one dislocation by parallel ones of
+	// Kind at the same depth (the partials of a dissociation on a glide
+	// plane parallel to the surfaces), each at X nm with its own g·b.
+	Cores       []WeakBeamCore     `json:"cores,omitempty"`
 	Nu          float64            `json:"nu"`
 	S1          float64            `json:"s1"`
 	LambdaNm    float64            `json:"lambda_nm"`
@@ -39,12 +43,22 @@ type WeakBeamCase struct {
 	StepNm      float64            `json:"h_nm"`
 }
 
-// SetXi sets ξ_h and ξ'_h (absorption; 0 or +Inf for none) of reflection h.
+// WeakBeamCore is one of parallel dislocations: its offset along the
+// columns' axis and its g·b.
+type WeakBeamCore struct {
+	X  float64 `json:"x"`
+	GB float64 `json:"gb"`
+}
+
+// SetXi sets ξ_h and ξ'_h (absorption) of reflection h; 0 or +Inf for
+// either leaves that part out (no coupling, no absorption).
 func (c *WeakBeamCase) SetXi(h int, xi, xiAbs float64) {
 	if c.Xi == nil {
 		c.Xi = map[string]float64{}
 	}
-	c.Xi[strconv.Itoa(h)] = xi
+	if xi > 0 && xi < 1e300 {
+		c.Xi[strconv.Itoa(h)] = xi
+	}
 	if xiAbs > 0 && xiAbs < 1e300 {
 		if c.XiAbs == nil {
 			c.XiAbs = map[string]float64{}

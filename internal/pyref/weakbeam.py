@@ -32,11 +32,15 @@
 #   edge, b and g along x, glide plane parallel to the surfaces:
 #          g.R = (g.b / 2 pi) (theta + x zeta / (2 (1 - nu) r^2)),
 #          theta = atan2(zeta, x), r^2 = x^2 + zeta^2.
-# No surface relaxation (infinite-medium fields).
+# No surface relaxation (infinite-medium fields). "cores": [{"x", "gb"}]
+# instead sums the fields of parallel dislocations of the same kind at the
+# same depth, offset by x (the partials of a dissociated dislocation whose
+# glide plane is parallel to the surfaces).
 #
 # Input (JSON on stdin): a list of cases, each with kind "screw"|"edge",
 # gb, nu, s1, lambda_nm, g_nm, N, two_beam, kinematical, xi {"h": nm} for
-# h = 1..2N, xi_abs {"h": nm} (absent: no absorption), xi0_abs (nm,
+# h = 1..2N (a reflection absent: no coupling), xi_abs {"h": nm} (absent:
+# no absorption), xi0_abs (nm,
 # absent: none), thickness_nm (a list: the intensity is averaged over the
 # foils, each with the dislocation at its middle, a wedge), x_nm (the
 # columns), h_nm (the largest step).
@@ -81,8 +85,9 @@ def coupling(d, ns):
             h = abs(int(ns[a] - ns[b]))
             if h == 0:
                 continue
-            q = 1 / d["xi"][str(h)]
-            if d.get("xi_abs"):
+            # a reflection without xi (or xi_abs) does not couple
+            q = 1 / d["xi"][str(h)] if str(h) in d["xi"] else 0
+            if d.get("xi_abs") and str(h) in d["xi_abs"]:
                 q += 1j / d["xi_abs"][str(h)]
             C[a, b] = np.pi * 1j * q
     return C
@@ -106,11 +111,14 @@ def run(d, h, x, foil):
     t = ts[foil]
     z0 = t / 2
     perfect = np.isnan(x)
+    # a dissociated dislocation: parallel lines at the same depth (x offsets, g.b each)
+    cores = [(c["x"], c["gb"]) for c in d["cores"]] if d.get("cores") else [(0.0, d["gb"])]
     xx = np.where(perfect, 1.0, x)
 
     def defect(z):
         """exp(2 pi i n g.R(z)) for every beam n, by powers of one exponential."""
-        r = np.where(perfect, 0.0, gR(d["kind"], d["gb"], d["nu"], xx, z - z0))
+        r = sum(gR(d["kind"], gb, d["nu"], xx - c, z - z0) for c, gb in cores)
+        r = np.where(perfect, 0.0, r)
         e = np.exp(2j * np.pi * r)
         pw = {0: np.ones_like(e)}
         for m in range(1, int(np.abs(ns).max()) + 1):
