@@ -61,10 +61,11 @@ func phaseOf(g r3.Vec, fs ...Field) func(p r3.Vec) float64 {
 	case len(s.lines)+len(s.incs) == 0 && len(s.rest) == 1:
 		return s.rest[0]
 	}
-	return s.phase
+	return s.phase()
 }
 
-// phase returns the sum of the terms' g·R at p.
+// phase returns the function that sums the terms' g·R at p (a closure
+// rather than the method value, which would add a call per evaluation).
 //
 // The bodies of the line and inclusion terms are written out in their
 // loops rather than called (a call costs about as much again as a line:
@@ -76,58 +77,69 @@ func phaseOf(g r3.Vec, fs ...Field) func(p r3.Vec) float64 {
 // exact), u = 2n + q for x' ≥ 0, 4n − q for x' < 0 ≤ y', −q for x' < 0,
 // y' < 0 (y' = −0 included: the side θ = −π of the cut); the four sign
 // cases spell out |x'| + |y'|. u lies in [0, 4n] for every finite input;
-// NaN ends at the last entry rather than outside the table. On the line
-// itself (x' = y' = 0) the added 1e-300 keeps q = 0: the direction +x',
-// as Dislocation.R takes it there.
-func (s *phaseSum) phase(p r3.Vec) float64 {
-	v := 0.0
-	var px, py float64 // ex·p, ey·p of the last line
-	for k := range s.lines {
-		l := &s.lines[k]
-		if !l.shared {
-			px = p.X*l.ex.X + p.Y*l.ex.Y + p.Z*l.ex.Z
-			py = p.X*l.ey.X + p.Y*l.ey.Y + p.Z*l.ey.Z
-		}
-		x, y := px-l.cx, py-l.cy
-		r2 := x*x + y*y
-		if r2 < coreR2Nm2 {
-			r2 = coreR2Nm2
-		}
-		var u float64
-		switch {
-		case !(x < 0):
-			if y >= 0 {
-				u = 2*l.n + l.n*y/(x+y+1e-300)
-			} else {
-				u = 2*l.n + l.n*y/(x-y)
+// NaN ends at the last entry rather than outside the table. Where r²
+// is 0 (on the line, or within 1e-154 nm of it, where r² underflows) the
+// direction is +x', as Dislocation.R takes it; elsewhere |x'| + |y'| > 0.
+//
+// (Not inlined: the compiler would then copy the closure into the caller
+// without inlining lnPos into it.)
+//
+//go:noinline
+func (s *phaseSum) phase() func(p r3.Vec) float64 {
+	lines, incs, rest := s.lines, s.incs, s.rest
+	return func(p r3.Vec) float64 {
+		v := 0.0
+		var px, py float64 // ex·p, ey·p of the last line
+		for k := range lines {
+			l := &lines[k]
+			if !l.shared {
+				px = p.X*l.ex.X + p.Y*l.ex.Y + p.Z*l.ex.Z
+				py = p.X*l.ey.X + p.Y*l.ey.Y + p.Z*l.ey.Z
 			}
-		case math.Signbit(y):
-			u = l.n * y / (x + y)
-		default:
-			u = 4*l.n - l.n*y/(y-x)
+			x, y := px-l.cx, py-l.cy
+			r2 := x*x + y*y
+			if r2 < coreR2Nm2 {
+				if r2 == 0 {
+					x, y = 1, 0 // as Dislocation.R: +x' where r² is 0
+				}
+				r2 = coreR2Nm2
+			}
+			var u float64
+			switch {
+			case !(x < 0):
+				if y >= 0 {
+					u = 2*l.n + l.n*y/(x+y)
+				} else {
+					u = 2*l.n + l.n*y/(x-y)
+				}
+			case math.Signbit(y):
+				u = l.n * y / (x + y)
+			default:
+				u = 4*l.n - l.n*y/(y-x)
+			}
+			i := int(u)
+			if uint(i) > l.last {
+				i = int(l.last)
+			}
+			t := u - float64(i)
+			c := &l.poly[i]
+			v += l.k*lnPos(r2) + (c[0] + t*(c[1]+t*(c[2]+t*c[3])))
 		}
-		i := int(u)
-		if uint(i) > l.last {
-			i = int(l.last)
+		for k := range incs {
+			c := &incs[k]
+			x, y, z := p.X-c.at.X, p.Y-c.at.Y, p.Z-c.at.Z
+			gr := c.ge.X*x + c.ge.Y*y + c.ge.Z*z
+			d2 := x*x + y*y + z*z
+			if d2 > c.r02 {
+				gr *= c.r03 / (d2 * math.Sqrt(d2))
+			}
+			v += gr
 		}
-		t := u - float64(i)
-		c := &l.poly[i]
-		v += l.k*lnPos(r2) + (c[0] + t*(c[1]+t*(c[2]+t*c[3])))
-	}
-	for k := range s.incs {
-		c := &s.incs[k]
-		x, y, z := p.X-c.at.X, p.Y-c.at.Y, p.Z-c.at.Z
-		gr := c.ge.X*x + c.ge.Y*y + c.ge.Z*z
-		d2 := x*x + y*y + z*z
-		if d2 > c.r02 {
-			gr *= c.r03 / (d2 * math.Sqrt(d2))
+		for _, f := range rest {
+			v += f(p)
 		}
-		v += gr
+		return v
 	}
-	for _, f := range s.rest {
-		v += f(p)
-	}
-	return v
 }
 
 // Phase implements Phaser: a table of g·R built once for g (see

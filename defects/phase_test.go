@@ -129,3 +129,34 @@ func TestDissociatedAndSumPhaseMatchDirect(t *testing.T) {
 		}
 	}
 }
+
+// On the cut itself (y' = ±0 exactly, x' < 0) the table takes the side the
+// sign of zero gives, as the direct formula's atan2 does (θ = π for +0,
+// −π for −0), and on the line (x' = y' = 0) the direction +x'; a NaN
+// position gives NaN, not a read outside the table.
+func TestLinePhaseOnCutAndLine(t *testing.T) {
+	c := cubicVoigt(cuC11, cuC12, cuC44)
+	for _, aniso := range []bool{false, true} {
+		// Line along z through the origin: x' = −x, y' = −y (the cut runs
+		// along +x, the frame's −x'), so exact zeros are easy to make.
+		d, err := NewDislocation(r3.Vec{X: 0.18, Y: 0.1, Z: 0.05}, r3.Vec{Z: 1}, r3.Vec{}, cuMedium(c), aniso)
+		if err != nil {
+			t.Fatal(err)
+		}
+		g := r3.Vec{X: 4.9, Y: 0.7}
+		fast := d.Phase(g)
+		for _, p := range []r3.Vec{
+			{X: 3, Y: 0, Z: 1}, {X: 3, Y: math.Copysign(0, -1), Z: 1}, {X: -3, Y: 0, Z: 1},
+			{X: 0, Y: 2, Z: 1}, {X: 0, Y: -2, Z: 1}, {Z: 5}, {X: 1e-300, Z: 5}, {X: 2e-4, Y: -1e-4, Z: 2},
+		} {
+			x, y := d.frame(p)
+			want := r3.Dot(g, d.R(p))
+			if got := fast(p); math.Abs(got-want) > 1e-7 {
+				t.Errorf("anisotropic %v: at x' = %v, y' = %v fast g·R %v, direct %v", aniso, x, y, got, want)
+			}
+		}
+		if v := fast(r3.Vec{X: math.NaN(), Z: 1}); !math.IsNaN(v) {
+			t.Errorf("anisotropic %v: NaN position gave %v", aniso, v)
+		}
+	}
+}
