@@ -118,6 +118,26 @@
 // Loop for the formulas and accuracy). Cavity: no crystal inside (Voids), no
 // displacement.
 //
+// # Fast path: g·R
+//
+// The simulator needs only the scalar g·R, and finds it through Phaser.
+// A straight dislocation's g·R is k ln r² + F(ψ) in the plane normal to
+// its line (isotropic and Stroh alike; see lineTable), F a piecewise cubic
+// in the pseudo-angle ψ = y'/(|x'| + |y'|) (±2 − that behind the line),
+// built once per g to 2e-9 cycles (TestLinePhaseMatchesDirect holds it to
+// 1e-7 of the direct formula at the core and on both sides of the cut).
+// ln r² is lnPos: the exponent bits give e ln 2, the top nine bits of the
+// mantissa a cell of a 512-entry table, and ln(1 + r), |r| ≤ 1/1024, four
+// terms of its series (within 1e-15 relative of math.Log over the whole
+// normal range, TestLnPos). Every member of a Sum (nested sums and the
+// partials of a dissociated dislocation included) joins one phaseSum:
+// its lines and inclusions are evaluated in one loop with no call per
+// member, the partials of a dissociated dislocation share ex·p and ey·p,
+// and only the members without such a form (loops, faults, cavities)
+// cost a call, through their own Phase or through R. BenchmarkPhaseSum
+// and BenchmarkSumDirect compare the two ways on a sum like the demo
+// scene's.
+//
 // # Stiffness rotation
 //
 // Voigt matrices (order 11, 22, 33, 23, 13, 12) rotate by Bond's matrix
