@@ -219,14 +219,14 @@ func (c *column) segment(a, b, ga float64) float64 {
 				gb = c.gamma(za + h)
 			}
 			d := gb - ga
+			cyc = c.beat(d/h) * h // before the nodes: its square root overlaps them
 			g1 := c.gamma(za + gaussNodes[0]*h)
 			g2 := c.gamma(za + gaussNodes[1]*h)
 			d1 = g1 - ga - gaussNodes[0]*d
 			d2 = g2 - ga - gaussNodes[1]*d
-			dep = math.Max(math.Abs(d1), math.Abs(d2))
-			cyc = c.beat(d/h) * h
-			err := indicator(d1, d2, cyc)
-			if !(err <= math.MaxFloat64) { // NaN or +Inf
+			dep = absMax(d1, d2)
+			err := dep * (floorWeight + (cyc/beatScale)*(cyc/beatScale))
+			if x := err + d1 + d2; x-x != 0 { // a NaN or an infinity
 				// The field is not finite here: poison the amplitudes so
 				// Render reports the column, and stop.
 				c.psi[0] = complex(math.NaN(), 0)
@@ -236,7 +236,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 				break
 			}
 			c.nRejects++
-			r := math.Max(0.1, math.Min(0.9, predict(dep, cyc, c.tol)))
+			r := clamp(predict(dep, cyc, c.tol), 0.1, 0.9)
 			known = math.NaN()
 			if r >= reuseFrom {
 				// Retry ending at the second Gauss node, whose γ is known.
@@ -248,12 +248,15 @@ func (c *column) segment(a, b, ga float64) float64 {
 				known = math.NaN()
 			}
 		}
+		// The next slab's length first: its square roots and division
+		// overlap the step.
+		next := h * clamp(predict(dep, cyc, c.tol), 0, 3)
 		c.st.Crystal(c.psi, h, (gb-ga)/h, d1, d2)
 		c.rec.slab(h, gb-ga, d1, d2)
 		c.nSlabs++
 		za += h
 		ga = gb
-		h *= math.Min(3, predict(dep, cyc, c.tol))
+		h = next
 	}
 	return ga
 }
@@ -261,7 +264,33 @@ func (c *column) segment(a, b, ga float64) float64 {
 // indicator is the error indicator of a slab of length h with departures
 // d1, d2 (cycles) holding cyc beat cycles (see the step control above).
 func indicator(d1, d2, cyc float64) float64 {
-	return math.Max(math.Abs(d1), math.Abs(d2)) * (floorWeight + (cyc/beatScale)*(cyc/beatScale))
+	return absMax(d1, d2) * (floorWeight + (cyc/beatScale)*(cyc/beatScale))
+}
+
+// absMax returns max(|a|, |b|) by plain comparisons (math.Max is a call
+// that handles NaN and signed zeros, which a NaN test elsewhere covers).
+func absMax(a, b float64) float64 {
+	if a < 0 {
+		a = -a
+	}
+	if b < 0 {
+		b = -b
+	}
+	if b > a {
+		return b
+	}
+	return a
+}
+
+// clamp returns x limited to [lo, hi] (x = +Inf gives hi).
+func clamp(x, lo, hi float64) float64 {
+	if x < lo {
+		return lo
+	}
+	if x > hi {
+		return hi
+	}
+	return x
 }
 
 // accept reports whether a slab of length h with indicator err passes

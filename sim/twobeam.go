@@ -164,10 +164,20 @@ var coshSeries, sinhcSeries = func() (c, s [10]float64) {
 //	sinh λ = sinh x cos y + i cosh x sin y,  1/λ = λ̄/|w|.
 func coshSinhc(w complex128) (ch, sh complex128) {
 	wr, wi := real(w), imag(w)
-	if wr*wr+wi*wi <= seriesMaxW*seriesMaxW {
-		cr, ci := coshSeries[9], 0.0
-		sr, si := sinhcSeries[9], 0.0
-		for n := 8; n >= 0; n-- {
+	if w2 := wr*wr + wi*wi; w2 <= seriesMaxW*seriesMaxW {
+		// Terms to w⁹ (|w| ≤ 1.5), to w⁷ (|w| ≤ 0.5: the omitted terms
+		// sum to less than 0.5⁸/16! < 2e-16) or to w⁶ (|w| ≤ 0.16:
+		// 0.16⁷/14! < 4e-17).
+		top := 9
+		if w2 <= 0.5*0.5 {
+			top = 7
+			if w2 <= 0.16*0.16 {
+				top = 6
+			}
+		}
+		cr, ci := coshSeries[top], 0.0
+		sr, si := sinhcSeries[top], 0.0
+		for n := top - 1; n >= 0; n-- {
 			cr, ci = cr*wr-ci*wi+coshSeries[n], cr*wi+ci*wr
 			sr, si = sr*wr-si*wi+sinhcSeries[n], sr*wi+si*wr
 		}
