@@ -50,6 +50,11 @@ const (
 	// tolerance, 2e-7 of the incident intensity at 1e-4 (2.4e-5 at 1e-3),
 	// against 8e-6 from the step control.
 	blochSlopeStep = 1e-4
+	// blochAnchorEvery is the spacing, in grid slopes, of the anchors
+	// decomposed from scratch (see bloch): 256 steps, 0.0256 cycles/nm.
+	// Continuing across it takes a few Newton iterations and costs about a
+	// third of a decomposition by gonum.
+	blochAnchorEvery = 256
 	// blochMaxOmega bounds ‖Ω‖₁ for the Bloch-wave slab: the left-out
 	// second Magnus term is of order ‖Ω‖² times the beat phase of the slab.
 	blochMaxOmega = 0.02
@@ -74,12 +79,43 @@ const (
 type rowBloch struct {
 	lam        []complex128
 	v, vinv, p []complex128 // row-major nb×nb
+	// pp[j·nb+k] = p_jk p_kj for j < k.
+	pp []complex128
+}
+
+// setPP fills b.pp from b.p.
+func (b *rowBloch) setPP(nb int) *rowBloch {
+	b.pp = make([]complex128, nb*nb)
+	for j := 0; j < nb; j++ {
+		for k := j + 1; k < nb; k++ {
+			b.pp[j*nb+k] = b.p[j*nb+k] * b.p[k*nb+j]
+		}
+	}
+	return b
+}
+
+// seriesInv[m] = 1/m and seriesInvFact[m] = 1/m! for the series of the
+// slab integrals.
+var seriesInv, seriesInvFact [blochSeriesTerms + 3]float64
+
+func init() {
+	f := 1.0
+	for m := range seriesInv {
+		if m > 0 {
+			seriesInv[m] = 1 / float64(m)
+			f *= float64(m)
+		}
+		seriesInvFact[m] = 1 / f
+	}
 }
 
 // bloch returns the kept decomposition for grid slope index k, computing it
 // if needed; nil if the matrix is too close to defective (then the caller
-// uses the Magnus–Taylor path). The result depends on k alone, so the
-// render is the same whatever the order in which columns are done.
+// uses the Magnus–Taylor step). Every blochAnchorEvery-th grid slope is an
+// anchor, decomposed by gonum's eigensolver; the others are continued from
+// their anchor by Newton's method (continueBloch), or decomposed like an
+// anchor if that fails. So the result depends on k alone, and the render
+// is the same whatever the order in which columns are done.
 func (st *rowStepper) bloch(k int64) *rowBloch {
 	if b, ok := st.kept[k]; ok {
 		return b
@@ -87,24 +123,43 @@ func (st *rowStepper) bloch(k int64) *rowBloch {
 	if st.kept == nil || len(st.kept) >= blochMaxKept {
 		st.kept = make(map[int64]*rowBloch)
 	}
-	nb := st.nb
-	st.fill(1, float64(k)*blochSlopeStep, nil)
-	e := newRowEigen(st.f, nb, 0)
 	var b *rowBloch
-	if e != nil {
-		b = &rowBloch{lam: e.lam, v: e.v, vinv: e.vinv, p: make([]complex128, nb*nb)}
-		// 2πi P = 2πi V⁻¹ N V: (V⁻¹)_jm n_m V_mk.
-		for j := 0; j < nb; j++ {
-			for kk := 0; kk < nb; kk++ {
-				var acc complex128
-				for m := 0; m < nb; m++ {
-					acc += b.vinv[j*nb+m] * complex(float64(m-st.half), 0) * b.v[m*nb+kk]
-				}
-				b.p[j*nb+kk] = complex(0, 2*math.Pi) * acc
-			}
+	a := blochAnchorEvery * int64(math.Round(float64(k)/blochAnchorEvery))
+	if a != k {
+		if ba := st.bloch(a); ba != nil {
+			b = st.continueBloch(ba, float64(k-a)*blochSlopeStep)
 		}
 	}
+	if b == nil {
+		b = st.eigenBloch(float64(k) * blochSlopeStep)
+	}
+	if b != nil {
+		b.setPP(st.nb)
+	}
 	st.kept[k] = b
+	return b
+}
+
+// eigenBloch decomposes the perfect-crystal matrix at slope beta with
+// gonum's eigensolver (newRowEigen); nil if it cannot be trusted.
+func (st *rowStepper) eigenBloch(beta float64) *rowBloch {
+	nb := st.nb
+	st.fill(1, beta, nil)
+	e := newRowEigen(st.f, nb, 0)
+	if e == nil {
+		return nil
+	}
+	b := &rowBloch{lam: e.lam, v: e.v, vinv: e.vinv, p: make([]complex128, nb*nb)}
+	// 2πi P = 2πi V⁻¹ N V: (V⁻¹)_jm n_m V_mk.
+	for j := 0; j < nb; j++ {
+		for kk := 0; kk < nb; kk++ {
+			var acc complex128
+			for m := 0; m < nb; m++ {
+				acc += b.vinv[j*nb+m] * complex(float64(m-st.half), 0) * b.v[m*nb+kk]
+			}
+			b.p[j*nb+kk] = complex(0, 2*math.Pi) * acc
+		}
+	}
 	return b
 }
 
@@ -134,24 +189,16 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 	fe := f0 + f1 + f2/2 // F(1)
 	fe1 := f1 + f2       // F'(1)
 	mom := st.mom[:blochSeriesTerms]
-	// Series coefficients: ∫₀¹ F(t) e^{xt} dt = Σ_m x^m/m! ∫₀¹ F t^m dt.
-	fact := 1.0
-	for m := range mom {
-		if m > 0 {
-			fact *= float64(m)
-		}
-		fm := float64(m)
-		mom[m] = (f0/(fm+1) + f1/(fm+2) + f2/(2*(fm+3))) / fact
-	}
+	haveMom := false
 	// λ' = λ + 2πi r P_jj, the Bloch waves' wave numbers to first order in
 	// r (the perturbation's diagonal, constant in the slab, taken exactly),
-	// and e^{λ'h}, e^{−λ'h}.
-	lam, eps, inv := st.lam, st.eps, st.einv
+	// and λ'h, e^{λ'h}, e^{−λ'h}.
+	lh, eps, inv := st.lam[:nb], st.eps[:nb], st.einv[:nb]
 	for j, l := range b.lam {
-		l += b.p[j*nb+j] * complex(r, 0)
-		lam[j] = l
-		ex := math.Exp(real(l) * h)
-		s, c := math.Sincos(imag(l) * h)
+		l = (l + b.p[j*nb+j]*complex(r, 0)) * complex(h, 0)
+		lh[j] = l
+		ex := math.Exp(real(l))
+		s, c := math.Sincos(imag(l))
 		eps[j] = complex(ex*c, ex*s)
 		inv[j] = complex(c/ex, -s/ex)
 	}
@@ -162,13 +209,25 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 	for j := 0; j < nb; j++ {
 		om[j*nb+j] = 0
 	}
-	r2h2 := complex(rh*rh, 0)
+	r2h2 := rh * rh
+	col := st.col[:nb]
+	for j := range col {
+		col[j] = 0
+	}
+	p, pp := b.p[:nb*nb], b.pp[:nb*nb]
 	for j := 0; j < nb; j++ {
 		for k := j + 1; k < nb; k++ {
-			x := (lam[k] - lam[j]) * complex(h, 0)
+			x := lh[k] - lh[j]
 			xr, xi := real(x), imag(x)
 			var ijk, ikj, sec complex128
 			if abs1(xr, xi) < blochSeriesX {
+				if !haveMom {
+					// ∫₀¹ F(t) e^{xt} dt = Σ_m x^m/m! ∫₀¹ F t^m dt.
+					for m := range mom {
+						mom[m] = (f0*seriesInv[m+1] + f1*seriesInv[m+2] + f2*seriesInv[m+3]/2) * seriesInvFact[m]
+					}
+					haveMom = true
+				}
 				// Horner in x and in −x.
 				var sp, sm complex128
 				for m := blochSeriesTerms - 1; m >= 0; m-- {
@@ -197,23 +256,27 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 				ikj = emx*complex(e1r-o1r, e1i-o1i) - complex(e0r-o0r, e0i-o0i)
 				sec = (ex-emx)*complex(u2r/2, u2i/2) - complex(ur, ui)
 			}
-			pjk, pkj := b.p[j*nb+k], b.p[k*nb+j]
-			om[j*nb+k] = pjk * ijk
-			om[k*nb+j] = pkj * ikj
+			ojk, okj := p[j*nb+k]*ijk, p[k*nb+j]*ikj
+			om[j*nb+k] = ojk
+			om[k*nb+j] = okj
+			col[k] += abs1(real(ojk), imag(ojk))
+			col[j] += abs1(real(okj), imag(okj))
 			// The second Magnus term of the constant r, on the diagonal.
-			d2 := r2h2 * pjk * pkj * sec
-			om[j*nb+j] += d2
-			om[k*nb+k] -= d2
+			if r2h2 != 0 {
+				d2 := pp[j*nb+k] * sec
+				d2 = complex(real(d2)*r2h2, imag(d2)*r2h2)
+				om[j*nb+j] += d2
+				om[k*nb+k] -= d2
+			}
 		}
 	}
+	// The 1-norm: the column sums, with the diagonal.
 	norm := 0.0
-	for k := 0; k < nb; k++ {
-		c := 0.0
-		for j := 0; j < nb; j++ {
-			v := om[j*nb+k]
-			c += abs1(real(v), imag(v))
+	for j, c := range col {
+		v := om[j*nb+j]
+		if c += abs1(real(v), imag(v)); c > norm {
+			norm = c
 		}
-		norm = math.Max(norm, c)
 	}
 	if norm > blochMaxOmega {
 		return false
@@ -226,7 +289,9 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 	copy(t, u)
 	umax := 0.0
 	for _, v := range u[:nb] {
-		umax = math.Max(umax, abs1(real(v), imag(v)))
+		if a := abs1(real(v), imag(v)); a > umax {
+			umax = a
+		}
 	}
 	term := 1.0
 	for m := 1; m < 30 && term > blochExpTol; m++ {
@@ -237,7 +302,9 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 			wr, wi := real(w[j])*cm, imag(w[j])*cm
 			w[j] = complex(wr, wi)
 			u[j] += w[j]
-			tn = math.Max(tn, abs1(wr, wi))
+			if a := abs1(wr, wi); a > tn {
+				tn = a
+			}
 		}
 		t, w = w, t
 		// The next term is at most this one times ‖Ω‖/(m+1).

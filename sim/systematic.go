@@ -144,6 +144,7 @@ func (m SystematicRow) NewStepper() Stepper {
 		eps:  make([]complex128, nb),
 		einv: make([]complex128, nb),
 		om:   make([]complex128, nb*nb),
+		col:  make([]float64, nb),
 	}
 	for h := -2 * n; h <= 2*n; h++ {
 		if h == 0 {
@@ -182,6 +183,7 @@ type rowStepper struct {
 	lam       []complex128
 	eps, einv []complex128
 	om        []complex128
+	col       []float64
 }
 
 func (st *rowStepper) Start(psi []complex128) {
@@ -358,15 +360,7 @@ func (st *rowStepper) expmv(psi []complex128) {
 }
 
 // abs1 is |re| + |im|, a bound on the modulus within a factor √2.
-func abs1(re, im float64) float64 {
-	if re < 0 {
-		re = -re
-	}
-	if im < 0 {
-		im = -im
-	}
-	return re + im
-}
+func abs1(re, im float64) float64 { return math.Abs(re) + math.Abs(im) }
 
 // eigenNorm is the 1-norm h·‖M‖ above which a perfect-crystal slab is
 // done by eigen-decomposition rather than the Taylor series: the cost of

@@ -1,0 +1,257 @@
+package sim
+
+import "math"
+
+// Bloch waves of the systematic row by continuation in the slope.
+//
+// The perfect-crystal matrix at slope β_a + Δ is A(β_a) + 2πiΔ N, which in
+// the basis of the Bloch waves at β_a (A(β_a) = V_a Λ_a V_a⁻¹) reads
+//
+//	B = Λ_a + 2πiΔ P_a,   P_a = V_a⁻¹ N V_a,
+//
+// nearly diagonal for the small Δ between neighbouring grid slopes. Each
+// eigenpair (x_j, λ_j) of B is found by Newton's method on
+//
+//	(B − λ I) x = 0,   x_j = 1,
+//
+// from x = e_j, λ = B_jj (the eigenvalue problem as a system of equations,
+// whose Newton iteration converges quadratically near a simple eigenvalue;
+// Peters & Wilkinson 1979, SIAM Rev. 21, 339). Then V = V_a X with the
+// columns normalised, V⁻¹ = X⁻¹ V_a⁻¹ and P = X⁻¹ P_a X. The result is
+// checked: every residual at rounding level and X well conditioned, else
+// nil (the caller then decomposes from scratch).
+
+const (
+	// contMaxIter bounds the Newton iterations per eigenpair.
+	contMaxIter = 12
+	// contResidual is the accepted residual |(B − λI)x|₁ relative to
+	// ‖B‖₁.
+	contResidual = 1e-14
+	// contMaxCond bounds the 1-norm condition number of X.
+	contMaxCond = 1e6
+)
+
+// continueBloch returns the decomposition at the anchor's slope plus dBeta,
+// or nil if the continuation does not converge cleanly.
+func (st *rowStepper) continueBloch(ba *rowBloch, dBeta float64) *rowBloch {
+	n := st.nb
+	bm := make([]complex128, n*n)
+	scale := 0.0
+	for j := 0; j < n; j++ {
+		for k := 0; k < n; k++ {
+			v := ba.p[j*n+k] * complex(dBeta, 0)
+			if j == k {
+				v += ba.lam[j]
+			}
+			bm[j*n+k] = v
+			scale = math.Max(scale, abs1(real(v), imag(v)))
+		}
+	}
+	scale *= float64(n)
+	x := make([]complex128, n*n) // columns are the eigenvectors of B
+	lam := make([]complex128, n)
+	jac := make([]complex128, n*n)
+	res := make([]complex128, n)
+	col := make([]complex128, n)
+	for j := 0; j < n; j++ {
+		for i := range col {
+			col[i] = 0
+		}
+		col[j] = 1
+		l := bm[j*n+j]
+		ok := false
+		for it := 0; it < contMaxIter; it++ {
+			// Residual r = (B − λI)x and its size.
+			rn := 0.0
+			for i := 0; i < n; i++ {
+				var acc complex128
+				for k := 0; k < n; k++ {
+					acc += bm[i*n+k] * col[k]
+				}
+				acc -= l * col[i]
+				res[i] = -acc
+				rn += abs1(real(acc), imag(acc))
+			}
+			if rn <= contResidual*scale {
+				ok = true
+				break
+			}
+			// Jacobian: B − λI with column j replaced by −x.
+			for i := 0; i < n; i++ {
+				for k := 0; k < n; k++ {
+					v := bm[i*n+k]
+					if i == k {
+						v -= l
+					}
+					if k == j {
+						v = -col[i]
+					}
+					jac[i*n+k] = v
+				}
+			}
+			if !solveComplex(jac, res, n) {
+				return nil
+			}
+			for i := 0; i < n; i++ {
+				if i == j {
+					l += res[i]
+				} else {
+					col[i] += res[i]
+				}
+			}
+		}
+		if !ok {
+			return nil
+		}
+		lam[j] = l
+		for i := 0; i < n; i++ {
+			x[i*n+j] = col[i]
+		}
+	}
+	// X⁻¹ and its condition.
+	xi := append([]complex128(nil), x...)
+	if !invertComplex(xi, n) {
+		return nil
+	}
+	if norm1(x, n)*norm1(xi, n) > contMaxCond {
+		return nil
+	}
+	b := &rowBloch{lam: lam, v: make([]complex128, n*n), vinv: make([]complex128, n*n), p: make([]complex128, n*n)}
+	matMul(b.v, ba.v, x, n)
+	matMul(b.vinv, xi, ba.vinv, n)
+	tmp := make([]complex128, n*n)
+	matMul(tmp, ba.p, x, n)
+	matMul(b.p, xi, tmp, n)
+	// Unit columns of V (and rows of V⁻¹, P scaled to match): the scaling
+	// leaves V Λ V⁻¹ unchanged and keeps Ω's norm meaningful.
+	for k := 0; k < n; k++ {
+		s := 0.0
+		for i := 0; i < n; i++ {
+			s += sq(b.v[i*n+k])
+		}
+		s = math.Sqrt(s)
+		if !(s > 0) {
+			return nil
+		}
+		for i := 0; i < n; i++ {
+			b.v[i*n+k] /= complex(s, 0)
+			b.vinv[k*n+i] *= complex(s, 0)
+			b.p[k*n+i] *= complex(s, 0)
+			b.p[i*n+k] /= complex(s, 0)
+		}
+	}
+	return b
+}
+
+// solveComplex solves a·x = rhs in place (x in rhs) by Gaussian elimination
+// with partial pivoting; a is destroyed. It reports false for a singular a.
+func solveComplex(a, rhs []complex128, n int) bool {
+	for c := 0; c < n; c++ {
+		p, best := c, 0.0
+		for r := c; r < n; r++ {
+			if m := abs1(real(a[r*n+c]), imag(a[r*n+c])); m > best {
+				p, best = r, m
+			}
+		}
+		if best == 0 {
+			return false
+		}
+		if p != c {
+			for k := 0; k < n; k++ {
+				a[c*n+k], a[p*n+k] = a[p*n+k], a[c*n+k]
+			}
+			rhs[c], rhs[p] = rhs[p], rhs[c]
+		}
+		inv := 1 / a[c*n+c]
+		for r := c + 1; r < n; r++ {
+			f := a[r*n+c] * inv
+			if f == 0 {
+				continue
+			}
+			for k := c; k < n; k++ {
+				a[r*n+k] -= f * a[c*n+k]
+			}
+			rhs[r] -= f * rhs[c]
+		}
+	}
+	for c := n - 1; c >= 0; c-- {
+		acc := rhs[c]
+		for k := c + 1; k < n; k++ {
+			acc -= a[c*n+k] * rhs[k]
+		}
+		rhs[c] = acc / a[c*n+c]
+	}
+	return true
+}
+
+// invertComplex replaces a by its inverse (Gauss–Jordan with partial
+// pivoting); it reports false for a singular a.
+func invertComplex(a []complex128, n int) bool {
+	inv := make([]complex128, n*n)
+	for i := 0; i < n; i++ {
+		inv[i*n+i] = 1
+	}
+	for c := 0; c < n; c++ {
+		p, best := c, 0.0
+		for r := c; r < n; r++ {
+			if m := abs1(real(a[r*n+c]), imag(a[r*n+c])); m > best {
+				p, best = r, m
+			}
+		}
+		if best == 0 {
+			return false
+		}
+		if p != c {
+			for k := 0; k < n; k++ {
+				a[c*n+k], a[p*n+k] = a[p*n+k], a[c*n+k]
+				inv[c*n+k], inv[p*n+k] = inv[p*n+k], inv[c*n+k]
+			}
+		}
+		d := 1 / a[c*n+c]
+		for k := 0; k < n; k++ {
+			a[c*n+k] *= d
+			inv[c*n+k] *= d
+		}
+		for r := 0; r < n; r++ {
+			if r == c {
+				continue
+			}
+			f := a[r*n+c]
+			if f == 0 {
+				continue
+			}
+			for k := 0; k < n; k++ {
+				a[r*n+k] -= f * a[c*n+k]
+				inv[r*n+k] -= f * inv[c*n+k]
+			}
+		}
+	}
+	copy(a, inv)
+	return true
+}
+
+// matMul sets dst = a·b for row-major n×n matrices (dst distinct from both).
+func matMul(dst, a, b []complex128, n int) {
+	for i := 0; i < n; i++ {
+		for k := 0; k < n; k++ {
+			var acc complex128
+			for m := 0; m < n; m++ {
+				acc += a[i*n+m] * b[m*n+k]
+			}
+			dst[i*n+k] = acc
+		}
+	}
+}
+
+// norm1 is the 1-norm (largest column sum of |re| + |im|) of an n×n matrix.
+func norm1(a []complex128, n int) float64 {
+	w := 0.0
+	for k := 0; k < n; k++ {
+		c := 0.0
+		for i := 0; i < n; i++ {
+			c += abs1(real(a[i*n+k]), imag(a[i*n+k]))
+		}
+		w = math.Max(w, c)
+	}
+	return w
+}
