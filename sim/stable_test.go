@@ -154,7 +154,7 @@ func TestSTable(t *testing.T) {
 			for i := 0; i < g.NX; i++ {
 				row, starts := smp.rows[j], smp.starts[j]
 				steps, _ = prep.fixedSteps(g.X(i), g.Y(j), row[starts[i]:starts[i+1]], smp.gamma0[j*g.NX+i], steps)
-				if !applySteps(st, psi, steps, prep.tol) {
+				if !applySteps(st, psi, steps, prep.tol, true) {
 					t.Fatalf("s = %g, column (%d, %d): a slab fails", s, i, j)
 				}
 				st.Intensities(psi, out)
