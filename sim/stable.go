@@ -47,10 +47,11 @@ import (
 // Samples.Replay takes it (partSlab), each checked against the step
 // control with the fastest beat of the models at sLo, the middle and sHi
 // (for the two-beam and kinematical models the beat is convex in s, so
-// that bounds it over the interval); a column whose recorded slabs fail is
-// integrated afresh from the field once, recording its steps. Each point's replay checks every slab
-// against its own model's beat where the edges' beats do not bound it, as
-// Samples.Replay does, and a failure is an error.
+// that bounds it over the interval); a column whose recorded slabs fail
+// is integrated afresh from the field once, recording its steps. Each
+// point's replay checks every slab against its own model's beat where the
+// edges' beats do not bound it, as Samples.Replay does, and a failure is
+// an error.
 //
 // Memory: the build holds the values at the points, (N+1)·beams·8 bytes
 // per column, and while doubling those of the previous set too; before
