@@ -1,6 +1,11 @@
 package sim
 
-import "math"
+import (
+	"fmt"
+	"math"
+	"strings"
+	"sync"
+)
 
 // The Bloch-wave slab of the systematic row.
 //
@@ -58,9 +63,6 @@ const (
 	// blochMaxOmega bounds ‖Ω‖₁ for the Bloch-wave slab: the left-out
 	// second Magnus term is of order ‖Ω‖² times the beat phase of the slab.
 	blochMaxOmega = 0.02
-	// blochMaxKept bounds the kept decompositions per stepper (about 2.5 kB
-	// each for 7 beams); when full, the store is emptied and refilled.
-	blochMaxKept = 8192
 	// blochSeriesX is the |x| = |λ_k − λ_j|·h below which the integrals are
 	// summed as series rather than in closed form (whose terms cancel as
 	// 1/x³ for small x).
@@ -120,24 +122,101 @@ func (st *rowStepper) bloch(k int64) *rowBloch {
 	if b, ok := st.kept[k]; ok {
 		return b
 	}
-	if st.kept == nil || len(st.kept) >= blochMaxKept {
+	if st.kept == nil || len(st.kept) >= st.store.limit {
 		st.kept = make(map[int64]*rowBloch)
 	}
-	var b *rowBloch
-	a := blochAnchorEvery * int64(math.Round(float64(k)/blochAnchorEvery))
-	if a != k {
-		if ba := st.bloch(a); ba != nil {
-			b = st.continueBloch(ba, float64(k-a)*blochSlopeStep)
+	b, ok := st.store.get(k)
+	if !ok {
+		a := blochAnchorEvery * int64(math.Round(float64(k)/blochAnchorEvery))
+		if a != k {
+			if ba := st.bloch(a); ba != nil {
+				b = st.continueBloch(ba, float64(k-a)*blochSlopeStep)
+			}
 		}
-	}
-	if b == nil {
-		b = st.eigenBloch(float64(k) * blochSlopeStep)
-	}
-	if b != nil {
-		b.setPP(st.nb)
+		if b == nil {
+			b = st.eigenBloch(float64(k) * blochSlopeStep)
+		}
+		if b != nil {
+			b.setPP(st.nb)
+		}
+		st.store.put(k, b)
 	}
 	st.kept[k] = b
 	return b
+}
+
+// rowStore keeps the Bloch waves of one systematic row by grid slope,
+// shared by the steppers of all workers and by later renders of the same
+// row (a decomposition depends on the row's constants and the grid slope
+// alone). Each stepper also keeps the ones it has used, without the lock.
+type rowStore struct {
+	mu    sync.Mutex
+	m     map[int64]*rowBloch
+	limit int // entries kept, about blochKeptBytes
+}
+
+// blochKeptBytes bounds the memory of one store; blochStores stores are
+// kept, the least recently made one dropped first.
+const (
+	blochKeptBytes = 24 << 20
+	blochStores    = 2
+)
+
+var rowStores struct {
+	mu    sync.Mutex
+	keys  []string
+	store []*rowStore
+}
+
+// storeFor returns the store of the row m, making it if needed.
+func storeFor(m SystematicRow) *rowStore {
+	var key strings.Builder
+	for _, v := range m.SPerNm {
+		fmt.Fprintf(&key, "%x,", math.Float64bits(v))
+	}
+	for _, v := range m.LambdaU {
+		fmt.Fprintf(&key, "%x,%x,", math.Float64bits(real(v)), math.Float64bits(imag(v)))
+	}
+	key.WriteString("|")
+	for _, v := range m.LambdaUAbs {
+		fmt.Fprintf(&key, "%x,%x,", math.Float64bits(real(v)), math.Float64bits(imag(v)))
+	}
+	fmt.Fprintf(&key, "|%x", math.Float64bits(m.Xi0AbsNm))
+	k := key.String()
+	rowStores.mu.Lock()
+	defer rowStores.mu.Unlock()
+	for i, kk := range rowStores.keys {
+		if kk == k {
+			return rowStores.store[i]
+		}
+	}
+	nb := max(1, len(m.SPerNm))
+	st := &rowStore{m: make(map[int64]*rowBloch), limit: max(256, blochKeptBytes/(64*nb*nb))}
+	if len(rowStores.keys) >= blochStores {
+		rowStores.keys = rowStores.keys[1:]
+		rowStores.store = rowStores.store[1:]
+	}
+	rowStores.keys = append(rowStores.keys, k)
+	rowStores.store = append(rowStores.store, st)
+	return st
+}
+
+func (s *rowStore) get(k int64) (*rowBloch, bool) {
+	s.mu.Lock()
+	b, ok := s.m[k]
+	s.mu.Unlock()
+	return b, ok
+}
+
+// put keeps b for k (two workers may both compute it; the results are the
+// same).
+func (s *rowStore) put(k int64, b *rowBloch) {
+	s.mu.Lock()
+	if len(s.m) >= s.limit {
+		s.m = make(map[int64]*rowBloch)
+	}
+	s.m[k] = b
+	s.mu.Unlock()
 }
 
 // eigenBloch decomposes the perfect-crystal matrix at slope beta with

@@ -131,20 +131,21 @@ func (m SystematicRow) NewStepper() Stepper {
 	n := m.order()
 	nb := 2*n + 1
 	st := &rowStepper{
-		nb:   nb,
-		half: n,
-		s:    append([]float64(nil), m.SPerNm...),
-		mu:   math.Pi * inverse(m.Xi0AbsNm),
-		q:    make([]complex128, 4*n+1),
-		f:    make([]complex128, nb*nb),
-		w:    make([]complex128, 3*nb),
-		ph:   make([]complex128, 2*(4*n+1)),
-		mom:  make([]float64, blochSeriesTerms),
-		lam:  make([]complex128, nb),
-		eps:  make([]complex128, nb),
-		einv: make([]complex128, nb),
-		om:   make([]complex128, nb*nb),
-		col:  make([]float64, nb),
+		nb:    nb,
+		half:  n,
+		s:     append([]float64(nil), m.SPerNm...),
+		mu:    math.Pi * inverse(m.Xi0AbsNm),
+		q:     make([]complex128, 4*n+1),
+		f:     make([]complex128, nb*nb),
+		w:     make([]complex128, 3*nb),
+		ph:    make([]complex128, 2*(4*n+1)),
+		mom:   make([]float64, blochSeriesTerms),
+		lam:   make([]complex128, nb),
+		eps:   make([]complex128, nb),
+		einv:  make([]complex128, nb),
+		om:    make([]complex128, nb*nb),
+		col:   make([]float64, nb),
+		store: storeFor(m),
 	}
 	for h := -2 * n; h <= 2*n; h++ {
 		if h == 0 {
@@ -176,9 +177,11 @@ type rowStepper struct {
 	w        []complex128 // scratch vectors
 	ph       []complex128 // phase factors for the two Gauss nodes
 	eig      []*rowEigen  // perfect-crystal decompositions by slope
-	// kept are the Bloch waves by grid slope (see rowbloch.go), with the
-	// scratch space of that step.
+	// kept are the Bloch waves by grid slope this stepper has used, store
+	// those of all steppers of the row (see rowbloch.go); then the scratch
+	// space of the Bloch-wave step.
 	kept      map[int64]*rowBloch
+	store     *rowStore
 	mom       []float64
 	lam       []complex128
 	eps, einv []complex128
