@@ -82,9 +82,12 @@
 // Record keeps, per column, the steps the integrator took from the field
 // (slab lengths, chord rises, departures, jumps, vacuum); Samples.Replay
 // integrates them again with another model (s, ξ_g, absorption) or a
-// smaller thickness without evaluating the field, re-checking every slab
-// against the step control with the new beat and integrating a column
-// afresh where one fails (see replay.go for the memory it takes).
+// smaller thickness without evaluating the field: every slab is re-checked
+// against the step control with the new beat (unless that beat is nowhere
+// above the recorded one) and a column is integrated afresh where one
+// fails; the slab the exit surface cuts is integrated over its part with
+// g·R from the cubic through its four samples (see replay.go, also for the
+// memory it takes).
 //
 // # Tabulated s
 //

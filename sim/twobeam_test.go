@@ -185,7 +185,7 @@ func TestCoshSinhc(t *testing.T) {
 	if tail > 2.5e-17 {
 		t.Errorf("series tail %.3g above the stated 2.5e-17", tail)
 	}
-	for _, r := range []float64{0, 1e-9, 1e-3, 0.3, 1, 1.4999, 1.5, 1.5001, 2.4, 10, 80} {
+	for _, r := range []float64{0, 1e-9, 1e-3, 0.1599, 0.16, 0.1601, 0.3, 0.4999, 0.5, 0.5001, 1, 1.4999, 1.5, 1.5001, 2.4, 10, 80} {
 		for k := 0; k < 16; k++ {
 			w := cmplx.Rect(r, 2*math.Pi*float64(k)/16+0.1)
 			ch, sh := coshSinhc(w)
