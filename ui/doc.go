@@ -17,8 +17,16 @@
 //     A newer change cancels the render in flight through its context; if
 //     that render is still on its preview (a few tens of milliseconds), the
 //     change waits for it, so a slider dragged without pause shows a new
-//     preview every preview time instead of none. Results come back to the
-//     UI goroutine through Controller.Post (fyne.Do in the program).
+//     preview every preview time instead of none. A change of the
+//     conditions alone (s, thickness, absorption) is instead replayed at
+//     full resolution from the field samples the last full render recorded
+//     (export.Record, export.Replay); after a change of s alone, a table of
+//     the intensities as Chebyshev series in s over the range the samples
+//     serve is built in the background (export.TabulateS, paused while
+//     anything else renders, dropped by any change but s), and later
+//     changes of s inside it are evaluated from it (export.FromTable).
+//     Result.Source says which. Results come back to the UI goroutine
+//     through Controller.Post (fyne.Do in the program).
 //   - The panels (params.go, defects.go, imageview.go, profile.go,
 //     micrograph.go, status.go) are functions that return a
 //     fyne.CanvasObject wired to a Controller.
