@@ -67,11 +67,13 @@ func benchmarkModel(b *testing.B, elasticity, diffraction string) {
 	if err != nil {
 		b.Fatal(err)
 	}
+	cpu := startCPU()
 	for b.Loop() {
 		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
 			b.Fatal(err)
 		}
 	}
+	cpu.report(b)
 	b.ReportMetric(256*256*float64(b.N)/b.Elapsed().Seconds(), "columns/s")
 }
 
