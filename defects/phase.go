@@ -190,6 +190,9 @@ func (c *Inclusion) addPhase(g r3.Vec, s *phaseSum) {
 		r02: c.r0 * c.r0, r03: c.r0 * c.r0 * c.r0})
 }
 
+// A cavity adds nothing to a sum's g·R (its R is zero), not even a call.
+func (c *Cavity) addPhase(r3.Vec, *phaseSum) {}
+
 // Phase implements Phaser: the sum of the members' g·R, each by its own
 // fast path where it has one, the lines' tables and the inclusions of all
 // members (nested sums and dissociated dislocations included) in one loop

@@ -87,7 +87,8 @@ func TestLinePhaseMatchesDirect(t *testing.T) {
 
 // The same for the two partials of a dissociated dislocation, whose cuts
 // lie in the glide plane (columns cross them), and for an inclusion and a
-// sum of fields with and without fast paths.
+// sum of fields with and without fast paths (a loop and a fault through R,
+// a cavity with none) nested in it.
 func TestDissociatedAndSumPhaseMatchDirect(t *testing.T) {
 	rng := rand.New(rand.NewPCG(23, 24))
 	c := cubicVoigt(cuC11, cuC12, cuC44)
@@ -109,7 +110,16 @@ func TestDissociatedAndSumPhaseMatchDirect(t *testing.T) {
 				t.Fatal("no angular table for a partial")
 			}
 		}
-		s := Sum{d, inc, loop}
+		cav, err := NewCavity(r3.Vec{X: 15, Y: -5, Z: 50}, 4)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fault, err := NewFault(r3.Vec{X: 30, Z: 50}, r3.Vec{X: 1, Y: 1, Z: 1}, r3.Vec{X: 0.12, Y: 0.12, Z: 0.12})
+		if err != nil {
+			t.Fatal(err)
+		}
+		// A nested sum and a cavity flatten into the same fast path.
+		s := Sum{d, inc, Sum{loop, cav, fault}}
 		g := r3.Vec{X: 4.9}
 		fast := s.Phase(g)
 		worst := 0.0
