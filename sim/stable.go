@@ -398,13 +398,21 @@ func (t *STable) Image(ctx context.Context, s float64, opt Options) (*Image, err
 	g := p.Grid
 	nb, n := t.nb, t.n
 	err := rowPool(ctx, 0, g.NY, opt, func() func(j int) {
+		var out [4]float64
 		return func(j int) {
-			for i := 0; i < g.NX; i++ {
-				pix := j*g.NX + i
-				for b := 0; b < nb; b++ {
-					q := (pix*nb + b) * n
-					im.Intensity[b][pix] = clenshaw(t.coef[q:q+n], x)
+			// The row's series are contiguous: four at a time, so that
+			// their recurrences overlap (each is a chain of dependent
+			// multiply-adds).
+			m0, m1 := j*g.NX*nb, (j+1)*g.NX*nb
+			m := m0
+			for ; m+4 <= m1; m += 4 {
+				clenshaw4(t.coef[m*n:(m+4)*n], n, x, &out)
+				for r := 0; r < 4; r++ {
+					im.Intensity[(m+r)%nb][(m+r)/nb] = out[r]
 				}
+			}
+			for ; m < m1; m++ {
+				im.Intensity[m%nb][m/nb] = clenshaw(t.coef[m*n:(m+1)*n], x)
 			}
 		}
 	})
@@ -425,6 +433,24 @@ func clenshaw(c []float64, x float64) float64 {
 		b1, b2 = c[k]+2*x*b1-b2, b1
 	}
 	return c[0] + x*b1 - b2
+}
+
+// clenshaw4 is clenshaw for the four series of n coefficients each that
+// follow each other in c, written to out.
+func clenshaw4(c []float64, n int, x float64, out *[4]float64) {
+	c0, c1, c2, c3 := c[:n], c[n:2*n], c[2*n:3*n], c[3*n:4*n]
+	var a1, a2, b1, b2, d1, d2, e1, e2 float64
+	x2 := 2 * x
+	for k := n - 1; k >= 1; k-- {
+		a1, a2 = c0[k]+x2*a1-a2, a1
+		b1, b2 = c1[k]+x2*b1-b2, b1
+		d1, d2 = c2[k]+x2*d1-d2, d1
+		e1, e2 = c3[k]+x2*e1-e2, e1
+	}
+	out[0] = c0[0] + x*a1 - a2
+	out[1] = c1[0] + x*b1 - b2
+	out[2] = c2[0] + x*d1 - d2
+	out[3] = c3[0] + x*e1 - e2
 }
 
 // fixedSteps writes into dst, and returns, the steps of the column through
