@@ -142,8 +142,9 @@ func TestDissociatedAndSumPhaseMatchDirect(t *testing.T) {
 
 // On the cut itself (y' = ±0 exactly, x' < 0) the table takes the side the
 // sign of zero gives, as the direct formula's atan2 does (θ = π for +0,
-// −π for −0), and on the line (x' = y' = 0) the direction +x'; a NaN
-// position gives NaN, not a read outside the table.
+// −π for −0), and on the line (x' = y' = 0) the direction +x'; far out
+// (r to 1e12 nm) it still agrees; a NaN position gives NaN, not a read
+// outside the table.
 func TestLinePhaseOnCutAndLine(t *testing.T) {
 	c := cubicVoigt(cuC11, cuC12, cuC44)
 	for _, aniso := range []bool{false, true} {
@@ -158,6 +159,8 @@ func TestLinePhaseOnCutAndLine(t *testing.T) {
 		for _, p := range []r3.Vec{
 			{X: 3, Y: 0, Z: 1}, {X: 3, Y: math.Copysign(0, -1), Z: 1}, {X: -3, Y: 0, Z: 1},
 			{X: 0, Y: 2, Z: 1}, {X: 0, Y: -2, Z: 1}, {Z: 5}, {X: 1e-300, Z: 5}, {X: 2e-4, Y: -1e-4, Z: 2},
+			// Far beyond any image: r² up to 1e24 nm² (ln r² = 55).
+			{X: 1e3, Y: -7e2, Z: 1}, {X: -3e6, Y: 1e6, Z: 1}, {X: 4e11, Y: 9e11, Z: 1},
 		} {
 			x, y := d.frame(p)
 			want := r3.Dot(g, d.R(p))
