@@ -106,6 +106,8 @@ type Loop struct {
 	kFar    float64 // −1/(8π(1−ν))
 	oneM2nu float64 // 1 − 2ν
 	bn      float64 // b·n̂
+	ba1     float64 // b·a1
+	ba2     float64 // b·a2
 }
 
 // NewLoop returns the circular loop of radius radiusNm centred on at (nm)
@@ -137,6 +139,7 @@ func NewLoop(at, normal, b r3.Vec, radiusNm float64, m Medium) (*Loop, error) {
 		k1: 1 / (4 * math.Pi), k2: 1 / (8 * math.Pi * (1 - nu)),
 		nearNm: loopFarFrom * radiusNm, farNm: loopFarTo * radiusNm,
 		kFar: -1 / (8 * math.Pi * (1 - nu)), oneM2nu: 1 - 2*nu, bn: r3.Dot(b, n)}
+	l.ba1, l.ba2 = r3.Dot(b, l.a1), r3.Dot(b, l.a2)
 	return l, nil
 }
 

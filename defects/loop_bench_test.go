@@ -53,6 +53,16 @@ func benchPoints(b *testing.B, f Field, pts []r3.Vec) {
 	}
 }
 
+// benchPhasePoints is benchPoints through the fast path (Loop.Phase),
+// g = 200 of copper along x.
+func benchPhasePoints(b *testing.B, f Field, pts []r3.Vec) {
+	ph := PhaseOf(f, r3.Vec{X: 2 / 0.3615})
+	b.ResetTimer()
+	for i := 0; b.Loop(); i++ {
+		sinkF = ph(pts[i%len(pts)])
+	}
+}
+
 func BenchmarkLoopNear(b *testing.B) {
 	l := benchLoop()
 	benchPoints(b, l, shellPoints(l, 4096, 0.05, 1, true))
@@ -111,6 +121,21 @@ func imageSamples(f Field, jumps func(x, y, z0, z1 float64) []float64, g float64
 	return pts
 }
 
+func BenchmarkPhaseLoopNear(b *testing.B) {
+	l := benchLoop()
+	benchPhasePoints(b, l, shellPoints(l, 4096, 0.05, 1, true))
+}
+
+func BenchmarkPhaseLoopMid(b *testing.B) {
+	l := benchLoop()
+	benchPhasePoints(b, l, shellPoints(l, 4096, 2, 4, false))
+}
+
+func BenchmarkPhaseLoopFar(b *testing.B) {
+	l := benchLoop()
+	benchPhasePoints(b, l, shellPoints(l, 4096, 8, 20, false))
+}
+
 // BenchmarkLoopImage averages over the samples of a 64 × 64 image,
 // 200 nm × 200 nm, of a 100 nm foil holding only the loop, g = 200 of
 // copper (|g| = 2/a, a = 0.3615 nm).
@@ -135,4 +160,17 @@ func BenchmarkLoopImageGrid(b *testing.B) {
 		}
 	}
 	benchPoints(b, l, pts)
+}
+
+func BenchmarkPhaseLoopImageGrid(b *testing.B) {
+	l := benchLoop()
+	var pts []r3.Vec
+	for i := range 64 {
+		for j := range 64 {
+			for k := range 100 {
+				pts = append(pts, r3.Vec{X: (float64(i) - 31.5) * 200 / 64, Y: (float64(j) - 31.5) * 200 / 64, Z: float64(k) + 0.5})
+			}
+		}
+	}
+	benchPhasePoints(b, l, pts)
 }

@@ -15,18 +15,41 @@ const loopMinDistNm = 1e-3
 // near returns Burgers' displacement of the circle in closed form (see
 // Loop), at q relative to the centre.
 func (l *Loop) near(q r3.Vec) r3.Vec {
+	t := l.nearTerms(q)
+	er := r3.Add(r3.Scale(t.c1, l.a1), r3.Scale(t.c2, l.a2))
+	ep := r3.Sub(r3.Scale(t.c1, l.a2), r3.Scale(t.c2, l.a1)) // n̂ × ê_ρ
+	u := r3.Scale(-t.omega*l.k1, l.b)
+	u = r3.Add(u, r3.Scale((l.k2-l.k1)*t.rI1, r3.Cross(l.b, ep)))
+	g := r3.Add(r3.Add(r3.Scale(t.gr, er), r3.Scale(t.gp, ep)), r3.Scale(t.gn, l.n))
+	return r3.Add(u, r3.Scale(l.k2, g))
+}
+
+// loopNear holds the closed form at a point as scalars:
+//
+//	u = −Ω k₁ b + (k₂ − k₁) r I₁ (b × ê_ψ) + k₂ (G_ρ ê_ρ + G_ψ ê_ψ + G_n n̂),
+//
+// ê_ρ = c1 a1 + c2 a2 and ê_ψ = n̂ × ê_ρ = c1 a2 − c2 a1 (a1, a2 the
+// loop's in-plane axes), so that R (near) and g·R (Loop.Phase) both follow
+// from them.
+type loopNear struct {
+	omega, rI1, gr, gp, gn, c1, c2 float64
+}
+
+// nearTerms returns the closed form's scalars at q (see Loop and
+// loopNear).
+func (l *Loop) nearTerms(q r3.Vec) loopNear {
 	r := l.radius
 	// In-plane coordinates from the in-plane axes, so that ê_ρ lies in
 	// the plane however close p is to the axis.
 	h, x1, x2 := r3.Dot(q, l.n), r3.Dot(q, l.a1), r3.Dot(q, l.a2)
 	rho := math.Sqrt(x1*x1 + x2*x2)
-	er := l.a1
+	c1, c2 := 1.0, 0.0
 	if rho > 0 {
-		er = r3.Add(r3.Scale(x1/rho, l.a1), r3.Scale(x2/rho, l.a2))
+		c1, c2 = x1/rho, x2/rho
 	}
 	// Hold the point at least loopMinDistNm (and a relative 1e-6) from the
 	// line, keeping its direction about the line.
-	if dr, dmin := rho-r, math.Max(loopMinDistNm, 1e-6*r); dr*dr+h*h < dmin*dmin {
+	if dr, dmin := rho-r, max(loopMinDistNm, 1e-6*r); dr*dr+h*h < dmin*dmin {
 		f := math.Hypot(dr, h)
 		if f == 0 {
 			dr, h = dmin, 0
@@ -35,7 +58,6 @@ func (l *Loop) near(q r3.Vec) r3.Vec {
 		}
 		rho = r + dr
 	}
-	ep := r3.Cross(l.n, er)
 
 	S := (r+rho)*(r+rho) + h*h   // largest distance², to the far side
 	R12 := (r-rho)*(r-rho) + h*h // smallest distance², to the near side
@@ -68,15 +90,16 @@ func (l *Loop) near(q r3.Vec) r3.Vec {
 		omega = -omega
 	}
 
-	bn, br, bp := r3.Dot(l.b, l.n), r3.Dot(l.b, er), r3.Dot(l.b, ep)
-	gr := r * (bn*((r-rho)*(r-rho)*J0-(r*r+rho*rho)*D01+I1) + br*h*((r-rho)*J0+rho*D01-L))
-	gp := r * h * bp * L
-	gn := -h * r * (bn*((r-rho)*J0+rho*D01) + br*h*(J0-D01))
-
-	u := r3.Scale(-omega*l.k1, l.b)
-	u = r3.Add(u, r3.Scale((l.k2-l.k1)*r*I1, r3.Cross(l.b, ep)))
-	g := r3.Add(r3.Add(r3.Scale(gr, er), r3.Scale(gp, ep)), r3.Scale(gn, l.n))
-	return r3.Add(u, r3.Scale(l.k2, g))
+	bn := l.bn
+	br, bp := c1*l.ba1+c2*l.ba2, c1*l.ba2-c2*l.ba1 // b·ê_ρ, b·ê_ψ
+	return loopNear{
+		omega: omega,
+		rI1:   r * I1,
+		gr:    r * (bn*((r-rho)*(r-rho)*J0-(r*r+rho*rho)*D01+I1) + br*h*((r-rho)*J0+rho*D01-L)),
+		gp:    r * h * bp * L,
+		gn:    -h * r * (bn*((r-rho)*J0+rho*D01) + br*h*(J0-D01)),
+		c1:    c1, c2: c2,
+	}
 }
 
 // loopQSeriesM is the parameter below which loopQ sums its series.
