@@ -44,8 +44,9 @@ import (
 // accurate than the fourth-order Magnus–Taylor step at the same slab.
 // Without absorption Λ is imaginary, V unitary and Ω anti-Hermitian, so the
 // slab conserves Σ|φ_n|². exp(Ω) is applied by its Taylor series, Ω being
-// small (‖Ω‖₁ ≤ blochMaxOmega; a slab beyond it takes the Magnus–Taylor
-// step of rowStepper.crystalMagnus instead).
+// small (‖Ω‖_F ≤ blochMaxOmega; a slab beyond it is halved, and one still
+// beyond it after three halvings takes the Magnus–Taylor step of
+// rowStepper.crystalMagnus instead).
 
 const (
 	// blochSlopeStep is the grid of chord slopes (cycles per nm) at which
@@ -60,9 +61,15 @@ const (
 	// Continuing across it takes a few Newton iterations and costs about a
 	// third of a decomposition by gonum.
 	blochAnchorEvery = 256
-	// blochMaxOmega bounds ‖Ω‖₁ for the Bloch-wave slab: the left-out
+	// blochRelayEvery is the spacing of the relay slopes, continued from
+	// the anchors; the other grid slopes are continued from the nearest
+	// relay, a short step that takes two or three Newton iterations.
+	blochRelayEvery = 16
+	// blochMaxOmega bounds ‖Ω‖_F for the Bloch-wave slab: the left-out
 	// second Magnus term is of order ‖Ω‖² times the beat phase of the slab.
-	blochMaxOmega = 0.02
+	// A slab beyond it is halved, at most blochMaxHalvings times.
+	blochMaxOmega    = 0.02
+	blochMaxHalvings = 3
 	// blochSeriesX is the |x| = |λ_k − λ_j|·h below which the integrals are
 	// summed as series rather than in closed form (whose terms cancel as
 	// 1/x³ for small x).
@@ -71,7 +78,7 @@ const (
 	// omitted one is below 0.15⁹/9! < 1e-13 of the sum's scale.
 	blochSeriesTerms = 9
 	// blochExpTol bounds the first omitted term of the Taylor series of
-	// exp(Ω) relative to the vector: 1e-12, so that a slab conserves
+	// exp(Ω) relative to the vector (2-norms): 1e-12, so that a slab conserves
 	// Σ|φ_n|² to about 1e-12 without absorption.
 	blochExpTol = 1e-12
 )
@@ -114,9 +121,10 @@ func init() {
 // bloch returns the kept decomposition for grid slope index k, computing it
 // if needed; nil if the matrix is too close to defective (then the caller
 // uses the Magnus–Taylor step). Every blochAnchorEvery-th grid slope is an
-// anchor, decomposed by gonum's eigensolver; the others are continued from
-// their anchor by Newton's method (continueBloch), or decomposed like an
-// anchor if that fails. So the result depends on k alone, and the render
+// anchor, decomposed by gonum's eigensolver; every blochRelayEvery-th is a
+// relay, continued from its anchor by Newton's method (continueBloch), and
+// the others are continued from their relay; a slope whose continuation
+// fails is decomposed like an anchor. So the result depends on k alone, and the render
 // is the same whatever the order in which columns are done.
 func (st *rowStepper) bloch(k int64) *rowBloch {
 	if b, ok := st.kept[k]; ok {
@@ -127,7 +135,12 @@ func (st *rowStepper) bloch(k int64) *rowBloch {
 	}
 	b, ok := st.store.get(k)
 	if !ok {
-		a := blochAnchorEvery * int64(math.Round(float64(k)/blochAnchorEvery))
+		// The slope to continue from: the nearest relay slope, or for a
+		// relay the nearest anchor.
+		a := blochRelayEvery * int64(math.Round(float64(k)/blochRelayEvery))
+		if a == k {
+			a = blochAnchorEvery * int64(math.Round(float64(k)/blochAnchorEvery))
+		}
 		if a != k {
 			if ba := st.bloch(a); ba != nil {
 				b = st.continueBloch(ba, float64(k-a)*blochSlopeStep)
@@ -244,8 +257,16 @@ func (st *rowStepper) eigenBloch(beta float64) *rowBloch {
 
 // crystalBloch advances psi through the slab by the Bloch-wave step
 // described above and reports true, or reports false (psi untouched) if
-// the slab is outside its reach.
+// the slab is outside its reach even when halved blochMaxHalvings times.
 func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) bool {
+	return st.blochSlab(psi, h, slope, d1, d2, blochMaxHalvings)
+}
+
+// blochSlab is crystalBloch with at most halvings halvings left. A slab
+// whose Ω is too large (a long slab, whose r h is large) is taken as its
+// two halves, each with the chord and the Gauss-node departures of the
+// same cubic δ: the halves see exactly the g·R the whole slab models.
+func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halvings int) bool {
 	kq := math.Round(slope / blochSlopeStep)
 	if math.Abs(kq) > 1<<40 || h <= 0 {
 		return false
@@ -281,18 +302,15 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 		eps[j] = complex(ex*c, ex*s)
 		inv[j] = complex(c/ex, -s/ex)
 	}
-	// Ω (the factor 2πi is in b.p) and its 1-norm (max column sum of
-	// |re| + |im|). Its diagonal, 2πi P_jj ∫δ', is zero. The pairs (j, k)
+	// Ω (the factor 2πi is in b.p) and its Frobenius norm. Its diagonal,
+	// 2πi P_jj ∫δ', is zero. The pairs (j, k)
 	// and (k, j) share x up to its sign.
 	om := st.om
 	for j := 0; j < nb; j++ {
 		om[j*nb+j] = 0
 	}
 	r2h2 := rh * rh
-	col := st.col[:nb]
-	for j := range col {
-		col[j] = 0
-	}
+	fro := 0.0 // ‖Ω‖²_F
 	p, pp := b.p[:nb*nb], b.pp[:nb*nb]
 	for j := 0; j < nb; j++ {
 		for k := j + 1; k < nb; k++ {
@@ -338,8 +356,7 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 			ojk, okj := p[j*nb+k]*ijk, p[k*nb+j]*ikj
 			om[j*nb+k] = ojk
 			om[k*nb+j] = okj
-			col[k] += abs1(real(ojk), imag(ojk))
-			col[j] += abs1(real(okj), imag(okj))
+			fro += sq(ojk) + sq(okj)
 			// The second Magnus term of the constant r, on the diagonal.
 			if r2h2 != 0 {
 				d2 := pp[j*nb+k] * sec
@@ -349,45 +366,60 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 			}
 		}
 	}
-	// The 1-norm: the column sums, with the diagonal.
-	norm := 0.0
-	for j, c := range col {
-		v := om[j*nb+j]
-		if c += abs1(real(v), imag(v)); c > norm {
-			norm = c
-		}
+	// ‖Ω‖_F, a bound on its 2-norm.
+	for j := 0; j < nb; j++ {
+		fro += sq(om[j*nb+j])
 	}
-	if norm > blochMaxOmega {
-		return false
+	if fro > blochMaxOmega*blochMaxOmega {
+		if halvings == 0 {
+			return false
+		}
+		// δ at the middle, and at the Gauss nodes of the halves, from the
+		// cubic; each half's departures are from its own chord.
+		cubic := func(t float64) float64 { return t * (1 - t) * (aa + bb*t) }
+		dm := cubic(0.5)
+		g0, g1 := gaussNodes[0], gaussNodes[1]
+		a1 := cubic(g0/2) - g0*dm
+		a2 := cubic(g1/2) - g1*dm
+		b1 := cubic(0.5+g0/2) - dm*(1-g0)
+		b2 := cubic(0.5+g1/2) - dm*(1-g1)
+		hh := h / 2
+		if !st.blochSlab(psi, hh, slope+dm/hh, a1, a2, halvings-1) {
+			return false
+		}
+		if !st.blochSlab(psi, hh, slope-dm/hh, b1, b2, halvings-1) {
+			// psi has taken the first half: finish by the Magnus–Taylor
+			// step.
+			st.crystalMagnus(psi, hh, slope-dm/hh, b1, b2)
+		}
+		return true
 	}
 	// u = V⁻¹ psi.
 	u, t, w := st.w[:nb], st.w[nb:2*nb], st.w[2*nb:3*nb]
 	matVec(u, b.vinv, psi, nb)
 	// u ← exp(Ω) u by its Taylor series, until the next term would be
-	// below blochExpTol of the vector.
+	// below blochExpTol of the vector (in 2-norm; compared squared).
 	copy(t, u)
-	umax := 0.0
+	un := 0.0
 	for _, v := range u[:nb] {
-		if a := abs1(real(v), imag(v)); a > umax {
-			umax = a
-		}
+		un += sq(v)
 	}
-	term := 1.0
-	for m := 1; m < 30 && term > blochExpTol; m++ {
+	tol2 := blochExpTol * blochExpTol * un
+	for m := 1; m < 30; m++ {
 		matVec(w, om, t, nb)
 		cm := 1 / float64(m)
 		tn := 0.0
 		for j := range w[:nb] {
-			wr, wi := real(w[j])*cm, imag(w[j])*cm
-			w[j] = complex(wr, wi)
-			u[j] += w[j]
-			if a := abs1(wr, wi); a > tn {
-				tn = a
-			}
+			v := w[j] * complex(cm, 0)
+			w[j] = v
+			u[j] += v
+			tn += sq(v)
 		}
 		t, w = w, t
 		// The next term is at most this one times ‖Ω‖/(m+1).
-		term = math.Min(term*norm/float64(m), tn/umax) * norm / float64(m+1)
+		if d := float64(m + 1); tn*fro <= tol2*d*d {
+			break
+		}
 	}
 	for j := range u[:nb] {
 		u[j] *= eps[j]

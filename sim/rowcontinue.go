@@ -14,7 +14,8 @@ import "math"
 //
 //	(B − λ I) x = 0,   x_j = 1,
 //
-// from x = e_j, λ = B_jj (the eigenvalue problem as a system of equations,
+// from the first-order perturbation of e_j, B_jj (the eigenvalue problem as
+// a system of equations,
 // whose Newton iteration converges quadratically near a simple eigenvalue;
 // Peters & Wilkinson 1979, SIAM Rev. 21, 339). Then V = V_a X with the
 // columns normalised, V⁻¹ = X⁻¹ V_a⁻¹ and P = X⁻¹ P_a X. The result is
@@ -54,11 +55,22 @@ func (st *rowStepper) continueBloch(ba *rowBloch, dBeta float64) *rowBloch {
 	res := make([]complex128, n)
 	col := make([]complex128, n)
 	for j := 0; j < n; j++ {
+		// First-order start: x_i = B_ij/(B_jj − B_ii), λ = B_jj + Σ B_jk x_k.
+		l := bm[j*n+j]
 		for i := range col {
 			col[i] = 0
+			if i != j {
+				if d := l - bm[i*n+i]; d != 0 {
+					col[i] = bm[i*n+j] / d
+				}
+			}
 		}
 		col[j] = 1
-		l := bm[j*n+j]
+		for k := 0; k < n; k++ {
+			if k != j {
+				l += bm[j*n+k] * col[k]
+			}
+		}
 		ok := false
 		for it := 0; it < contMaxIter; it++ {
 			// Residual r = (B − λI)x and its size.

@@ -144,7 +144,6 @@ func (m SystematicRow) NewStepper() Stepper {
 		eps:   make([]complex128, nb),
 		einv:  make([]complex128, nb),
 		om:    make([]complex128, nb*nb),
-		col:   make([]float64, nb),
 		store: storeFor(m),
 	}
 	for h := -2 * n; h <= 2*n; h++ {
@@ -186,7 +185,6 @@ type rowStepper struct {
 	lam       []complex128
 	eps, einv []complex128
 	om        []complex128
-	col       []float64
 }
 
 func (st *rowStepper) Start(psi []complex128) {
