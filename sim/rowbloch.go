@@ -52,9 +52,10 @@ const (
 	// blochSlopeStep is the grid of chord slopes (cycles per nm) at which
 	// Bloch waves are kept. The remainder r is taken to first order (and
 	// the secular part of the second); what is left grows as the step
-	// squared: measured on the scene of BenchmarkRowRender at the default
-	// tolerance, 2e-7 of the incident intensity at 1e-4 (2.4e-5 at 1e-3),
-	// against 8e-6 from the step control.
+	// squared: measured on the scene of BenchmarkRowRender (16² columns,
+	// at the Bragg position) at the default tolerance, 2.2e-7 of the
+	// incident intensity at 1e-4 (1.5e-5 at 1e-3), against 2.3e-6 from the
+	// step control.
 	blochSlopeStep = 1e-4
 	// blochAnchorEvery is the spacing, in grid slopes, of the anchors
 	// decomposed from scratch (see bloch): 256 steps, 0.0256 cycles/nm.
