@@ -133,10 +133,12 @@
 // partials of a dissociated dislocation included) joins one phaseSum:
 // its lines and inclusions are evaluated in one loop with no call per
 // member, the partials of a dissociated dislocation share ex·p and ey·p,
-// and only the members without such a form (loops, faults, cavities)
-// cost a call, through their own Phase or through R. BenchmarkPhaseSum
-// and BenchmarkSumDirect compare the two ways on a sum like the demo
-// scene's.
+// a cavity adds nothing, and the other members cost a call: a loop its
+// own Phase (loopPhase: the scalars of its closed form and of its far
+// field dotted with g, TestLoopPhaseMatchesDirect), a fault g·R through
+// R. BenchmarkPhaseSum and BenchmarkSumDirect compare the two ways on a
+// sum like the demo scene's, BenchmarkPhaseLoop* and BenchmarkLoop* a
+// loop's.
 //
 // # Stiffness rotation
 //
