@@ -24,13 +24,19 @@ import (
 // Render simulates the setup's problem, applying the scene's blur. A blur
 // outside its range is refused before the render starts.
 func Render(ctx context.Context, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
+	return withBlur(st, func() (*sim.Image, error) { return sim.Render(ctx, st.Problem, opt) })
+}
+
+// withBlur runs render, refusing the scene's blur before it starts when
+// the blur is outside its range, and applies the blur to its image.
+func withBlur(st *scene.Setup, render func() (*sim.Image, error)) (*sim.Image, error) {
 	b := st.Scene.Image.BlurNm
 	if b != nil {
 		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
 			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
 		}
 	}
-	im, err := sim.Render(ctx, st.Problem, opt)
+	im, err := render()
 	if err != nil {
 		return nil, err
 	}
@@ -47,20 +53,14 @@ func Render(ctx context.Context, st *scene.Setup, opt sim.Options) (*sim.Image, 
 // the further models also. The samples are nil when they would exceed
 // sim.DefaultSamplesBytes.
 func Record(ctx context.Context, st *scene.Setup, opt sim.Options, maxThicknessNm float64, also []sim.Model) (*sim.Image, *sim.Samples, error) {
-	b := st.Scene.Image.BlurNm
-	if b != nil {
-		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
-			return nil, nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
-		}
-	}
-	im, s, err := sim.Record(ctx, st.Problem, sim.RecordOptions{Options: opt, MaxThicknessNm: maxThicknessNm, Also: also})
+	var s *sim.Samples
+	im, err := withBlur(st, func() (*sim.Image, error) {
+		im, rec, err := sim.Record(ctx, st.Problem, sim.RecordOptions{Options: opt, MaxThicknessNm: maxThicknessNm, Also: also})
+		s = rec
+		return im, err
+	})
 	if err != nil {
 		return nil, nil, err
-	}
-	if b != nil {
-		if err := sim.Blur(im, *b); err != nil {
-			return nil, nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
-		}
 	}
 	return im, s, nil
 }
@@ -113,22 +113,10 @@ func ReplaySameGeometry(ctx context.Context, s *sim.Samples, st *scene.Setup, op
 }
 
 func replay(ctx context.Context, s *sim.Samples, st *scene.Setup, opt sim.Options) (*sim.Image, error) {
-	b := st.Scene.Image.BlurNm
-	if b != nil {
-		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
-			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
-		}
-	}
-	im, _, err := s.Replay(ctx, st.Problem.Model, st.Problem.ThicknessNm, opt)
-	if err != nil {
-		return nil, err
-	}
-	if b != nil {
-		if err := sim.Blur(im, *b); err != nil {
-			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
-		}
-	}
-	return im, nil
+	return withBlur(st, func() (*sim.Image, error) {
+		im, _, err := s.Replay(ctx, st.Problem.Model, st.Problem.ThicknessNm, opt)
+		return im, err
+	})
 }
 
 // SModel returns the setup's excitation error s (1/nm) and the setup's
@@ -192,22 +180,7 @@ func FromTable(ctx context.Context, t *sim.STable, st *scene.Setup, opt sim.Opti
 	if !ok || !t.Serves(st.Problem, s) {
 		return nil, fmt.Errorf("s table: the table does not serve this setup (%w)", sim.ErrSTableRange)
 	}
-	b := st.Scene.Image.BlurNm
-	if b != nil {
-		if err := sim.CheckBlur(*b, st.Problem.Grid); err != nil {
-			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
-		}
-	}
-	im, err := t.Image(ctx, s, opt)
-	if err != nil {
-		return nil, err
-	}
-	if b != nil {
-		if err := sim.Blur(im, *b); err != nil {
-			return nil, &scene.FieldError{Path: "image.blur_nm", Msg: err.Error()}
-		}
-	}
-	return im, nil
+	return withBlur(st, func() (*sim.Image, error) { return t.Image(ctx, s, opt) })
 }
 
 // Indices formats indices as the trade writes them: "2 0 0", "1 -1 0"

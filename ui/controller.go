@@ -520,36 +520,32 @@ func (c *Controller) launch(st *scene.Setup, gen uint64, changed time.Time) {
 // full render, at full resolution; with sMove (a change of s alone) it
 // then starts building the s table, unless one is built or building.
 func (c *Controller) replay(ctx context.Context, job uint64, s *sim.Samples, st *scene.Setup, gen uint64, changed time.Time, sMove bool) {
-	workers, post := c.Workers, c.Post
-	cancel := c.cancel
-	c.busy.Add(1)
-	go func() {
-		defer cancel()
-		defer c.busy.Add(-1)
-		t0 := time.Now()
-		im, err := export.Replay(ctx, s, st, sim.Options{Workers: workers})
-		if ctx.Err() != nil {
-			return
+	c.inBackground(ctx, job, gen, changed, func(opt sim.Options) (*Result, error) {
+		im, err := export.Replay(ctx, s, st, opt)
+		return &Result{Setup: st, Image: im, Source: SourceReplay}, err
+	}, func() {
+		// Not again after a build for these conditions failed (its
+		// error stays until a change other than s drops it).
+		if sMove && job == c.job && c.table == nil && c.tableCancel == nil && c.tableErr == nil && c.samples == s {
+			c.buildTable(s, st)
 		}
-		if err != nil {
-			post(func() { c.fail(job, err) })
-			return
-		}
-		r := &Result{Setup: st, Image: im, Source: SourceReplay, Elapsed: time.Since(t0), Gen: gen}
-		post(func() {
-			c.deliver(job, r, changed)
-			// Not again after a build for these conditions failed (its
-			// error stays until a change other than s drops it).
-			if sMove && job == c.job && c.table == nil && c.tableCancel == nil && c.tableErr == nil && c.samples == s {
-				c.buildTable(s, st)
-			}
-		})
-	}()
+	})
 }
 
 // fromTable renders change gen of st from the s table, at full
 // resolution.
 func (c *Controller) fromTable(ctx context.Context, job uint64, t *sim.STable, st *scene.Setup, gen uint64, changed time.Time) {
+	c.inBackground(ctx, job, gen, changed, func(opt sim.Options) (*Result, error) {
+		im, err := export.FromTable(ctx, t, st, opt)
+		return &Result{Setup: st, Image: im, Source: SourceTable, Table: t}, err
+	}, nil)
+}
+
+// inBackground runs render off the UI goroutine with the window's
+// workers and delivers its result as change gen of job, timed; then, on
+// the UI goroutine, runs after (if not nil). A cancelled job delivers
+// nothing; an error is reported.
+func (c *Controller) inBackground(ctx context.Context, job, gen uint64, changed time.Time, render func(sim.Options) (*Result, error), after func()) {
 	workers, post := c.Workers, c.Post
 	cancel := c.cancel
 	c.busy.Add(1)
@@ -557,7 +553,7 @@ func (c *Controller) fromTable(ctx context.Context, job uint64, t *sim.STable, s
 		defer cancel()
 		defer c.busy.Add(-1)
 		t0 := time.Now()
-		im, err := export.FromTable(ctx, t, st, sim.Options{Workers: workers})
+		r, err := render(sim.Options{Workers: workers})
 		if ctx.Err() != nil {
 			return
 		}
@@ -565,8 +561,13 @@ func (c *Controller) fromTable(ctx context.Context, job uint64, t *sim.STable, s
 			post(func() { c.fail(job, err) })
 			return
 		}
-		r := &Result{Setup: st, Image: im, Source: SourceTable, Table: t, Elapsed: time.Since(t0), Gen: gen}
-		post(func() { c.deliver(job, r, changed) })
+		r.Elapsed, r.Gen = time.Since(t0), gen
+		post(func() {
+			c.deliver(job, r, changed)
+			if after != nil {
+				after()
+			}
+		})
 	}()
 }
 
