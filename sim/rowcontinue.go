@@ -155,17 +155,25 @@ func (st *rowStepper) continueBloch(ba *rowBloch, dBeta float64) *rowBloch {
 	return b
 }
 
+// pivotRow returns the row r ≥ c of the row-major n×n matrix a with the
+// largest |a[r][c]| (in the 1-norm of its parts), or −1 when that column
+// is zero from row c down.
+func pivotRow(a []complex128, n, c int) int {
+	p, best := -1, 0.0
+	for r := c; r < n; r++ {
+		if m := abs1(real(a[r*n+c]), imag(a[r*n+c])); m > best {
+			p, best = r, m
+		}
+	}
+	return p
+}
+
 // solveComplex solves a·x = rhs in place (x in rhs) by Gaussian elimination
 // with partial pivoting; a is destroyed. It reports false for a singular a.
 func solveComplex(a, rhs []complex128, n int) bool {
 	for c := 0; c < n; c++ {
-		p, best := c, 0.0
-		for r := c; r < n; r++ {
-			if m := abs1(real(a[r*n+c]), imag(a[r*n+c])); m > best {
-				p, best = r, m
-			}
-		}
-		if best == 0 {
+		p := pivotRow(a, n, c)
+		if p < 0 {
 			return false
 		}
 		if p != c {
@@ -204,13 +212,8 @@ func invertComplex(a []complex128, n int) bool {
 		inv[i*n+i] = 1
 	}
 	for c := 0; c < n; c++ {
-		p, best := c, 0.0
-		for r := c; r < n; r++ {
-			if m := abs1(real(a[r*n+c]), imag(a[r*n+c])); m > best {
-				p, best = r, m
-			}
-		}
-		if best == 0 {
+		p := pivotRow(a, n, c)
+		if p < 0 {
 			return false
 		}
 		if p != c {
