@@ -82,6 +82,8 @@ type column struct {
 	// also are the steppers of further models whose beats also limit the
 	// slabs (Record for several models).
 	also []Stepper
+	// sq is st if it gives its squared beat directly.
+	sq beatSquarer
 	// check says whether replay re-checks each recorded slab with the
 	// model's beat.
 	check bool
@@ -102,6 +104,7 @@ func newColumn(p *Problem, phase func(r3.Vec) float64) *column {
 	if c.tol <= 0 {
 		c.tol = DefaultTolerance
 	}
+	c.sq, _ = c.st.(beatSquarer)
 	if p.Field != nil {
 		c.hasFld = true
 		c.jumper, _ = p.Field.(Jumper)
@@ -118,6 +121,21 @@ func (c *column) beat(slope float64) float64 {
 		b = math.Max(b, s.Beat(slope))
 	}
 	return b
+}
+
+// beatSquarer is implemented by steppers that give the square of their
+// beat without a square root (the step control needs only the square).
+type beatSquarer interface {
+	beat2(slope float64) float64
+}
+
+// beat2 is the square of beat(slope).
+func (c *column) beat2(slope float64) float64 {
+	if c.sq != nil && len(c.also) == 0 {
+		return c.sq.beat2(slope)
+	}
+	b := c.beat(slope)
+	return b * b
 }
 
 // gamma is g·R at depth z of the current column, in cycles.
@@ -205,7 +223,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 	za := a
 	h := math.Min(b-a, firstCycles/c.beat(0))
 	for b-za > 1e-12 {
-		var gb, d1, d2, dep, cyc float64
+		var gb, d1, d2, dep, cyc2 float64
 		known := math.NaN() // γ(za + h) when a rejected slab sampled it
 		for {
 			last := za+h >= b-1e-12
@@ -219,13 +237,13 @@ func (c *column) segment(a, b, ga float64) float64 {
 				gb = c.gamma(za + h)
 			}
 			d := gb - ga
-			cyc = c.beat(d/h) * h // before the nodes: its square root overlaps them
+			cyc2 = c.beat2(d/h) * (h * h) // (beat cycles)², before the nodes
 			g1 := c.gamma(za + gaussNodes[0]*h)
 			g2 := c.gamma(za + gaussNodes[1]*h)
 			d1 = g1 - ga - gaussNodes[0]*d
 			d2 = g2 - ga - gaussNodes[1]*d
 			dep = absMax(d1, d2)
-			err := dep * (floorWeight + (cyc/beatScale)*(cyc/beatScale))
+			err := dep * (floorWeight + cyc2*invBeatScale2)
 			if x := err + d1 + d2; x-x != 0 { // a NaN or an infinity
 				// The field is not finite here: poison the amplitudes so
 				// Render reports the column, and stop.
@@ -236,7 +254,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 				break
 			}
 			c.nRejects++
-			r := clamp(predict(dep, cyc, c.tol), 0.1, 0.9)
+			r := clamp(predict(dep, cyc2, c.tol), 0.1, 0.9)
 			known = math.NaN()
 			if r >= reuseFrom {
 				// Retry ending at the second Gauss node, whose γ is known.
@@ -250,7 +268,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 		}
 		// The next slab's length first: its square roots and division
 		// overlap the step.
-		next := h * clamp(predict(dep, cyc, c.tol), 0, 3)
+		next := h * clamp(predict(dep, cyc2, c.tol), 0, 3)
 		c.st.Crystal(c.psi, h, (gb-ga)/h, d1, d2)
 		c.rec.slab(h, gb-ga, d1, d2)
 		c.nSlabs++
@@ -298,19 +316,22 @@ func clamp(x, lo, hi float64) float64 {
 func accept(err, tol, h float64) bool { return err <= tol || h <= minSlabNm }
 
 // predict returns the factor r by which a slab of departure dep holding
-// cyc beat cycles is scaled so that its indicator, with dep ∝ h² and
-// cyc ∝ h, meets safety × tol: the positive root of
-// A r² + B r⁴ = safety·tol, A = dep, B = dep·(cyc/beatScale)².
-func predict(dep, cyc, tol float64) float64 {
+// cyc beat cycles (cyc2 = cyc²) is scaled so that its indicator, with
+// dep ∝ h² and cyc ∝ h, meets safety × tol: the positive root of
+// A r² + B r⁴ = safety·tol, A = floorWeight·dep, B = dep·(cyc/beatScale)².
+func predict(dep, cyc2, tol float64) float64 {
 	if dep == 0 {
 		return math.Inf(1)
 	}
 	t := safety * tol
 	aa := floorWeight * dep
-	bb := dep * (cyc / beatScale) * (cyc / beatScale)
+	bb := dep * cyc2 * invBeatScale2
 	if bb < 1e-6*aa {
 		return math.Sqrt(t / aa)
 	}
 	r2 := 2 * t / (aa + math.Sqrt(aa*aa+4*bb*t))
 	return math.Sqrt(r2)
 }
+
+// invBeatScale2 is 1/beatScale².
+const invBeatScale2 = 1 / (beatScale * beatScale)

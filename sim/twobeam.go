@@ -268,6 +268,12 @@ func csqrt(z complex128) (complex128, float64) {
 	return complex(math.Abs(b)/(2*t), math.Copysign(t, b)), r
 }
 
+// beat2 is the square of Beat, without its square root.
+func (st *twoBeamStepper) beat2(slope float64) float64 {
+	k := st.s + slope
+	return k*k + st.invXi2
+}
+
 // Beat is the Pendellösung frequency sqrt((s + β)² + 1/ξ_g²).
 func (st *twoBeamStepper) Beat(slope float64) float64 {
 	k := st.s + slope
