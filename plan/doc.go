@@ -20,10 +20,21 @@
 // which is 0 for a featureless image and approaches 1 where the defect
 // makes the intensity vanish somewhere or rise far above the background.
 //
-// The weak-beam peak is the maximum of that profile's dark field; its
-// position is measured from the dislocation's core along the profile and
-// its width is the full width at half its height above the perfect
-// crystal's dark field. The image of each partial of a dissociated
+// The weak-beam image of a dislocation, and of each partial of a
+// dissociated one, is sought by one rule (imagePeak): the highest maximum
+// of the dark field along that profile on the side of the core where
+// s + g·dR/dz = 0, within 2.5 times the distance at which that happens on
+// the column through the core, rising above the perfect crystal's dark
+// field by at least 5 % of the highest rise within the sought reach of
+// the cores. Where there is none the peak is not found (NaN); a value at
+// the edge of the profile is never taken. Its position is measured from
+// the core along the profile (from the ribbon's middle for a dissociated
+// dislocation, whose stronger partial image stands for the pair's) and its
+// width is the full width at half its height above the background,
+// crossings interpolated between samples; NaN where the half height is
+// not reached inside the profile, which extends 4 nm beyond the farthest
+// point sought (at least ±12 nm, a column every 0.15 nm). The image of
+// each partial of a dissociated
 // dislocation lies off its core towards the side where s + g·dR/dz = 0,
 // near the distance g·b_p/(2π s) at which that happens on the column
 // through the core's depth (Cockayne, Ray & Whelan 1969, Phil. Mag. 20,

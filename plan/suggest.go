@@ -47,19 +47,20 @@ func (p *Plan) suggest() {
 			Why:  "the highest visibility of the defects over the (t, s) grid (visibility.csv; visibility as defined in the README)",
 		})
 	}
-	// Weak beam: the smallest n meeting the common-practice rule.
-	for _, w := range p.WeakBeam {
-		if math.Abs(w.SPerNm) >= scene.WeakBeamMinSPerNm && math.Abs(w.W) >= scene.WeakBeamMinW {
-			what := fmt.Sprintf("weak beam g(%dg): s = %.3f /nm, w = %.1f; image peak %.2f nm from the core, %.2f nm wide", w.N, w.SPerNm, w.W, w.PeakNm, w.WidthNm)
-			if !math.IsNaN(w.MeasuredSepNm) {
-				what += fmt.Sprintf("; the partials' peaks %.2f nm apart for a projected separation of %.2f nm (multiply a measured width by %.2f)", w.MeasuredSepNm, w.ProjectedSepNm, w.ProjectedSepNm/w.MeasuredSepNm)
-			} else if !math.IsNaN(w.ProjectedSepNm) {
-				what += fmt.Sprintf("; the partials' images are not resolved here (projected separation %.2f nm)", w.ProjectedSepNm)
-			}
-			p.Suggestions = append(p.Suggestions, Suggestion{What: what,
-				Why: fmt.Sprintf("the smallest n with |s_g| ≥ %g /nm and |w| ≥ %g (common practice), so the image lies close to the core (Cockayne, Ray & Whelan 1969)", scene.WeakBeamMinSPerNm, float64(scene.WeakBeamMinW))})
-			break
+	// Weak beam: the smallest n meeting the common-practice rule, or the
+	// largest n scanned if none does.
+	rule := fmt.Sprintf("|s_g| ≥ %g /nm and |w| ≥ %g (common practice)", scene.WeakBeamMinSPerNm, float64(scene.WeakBeamMinW))
+	for k, w := range p.WeakBeam {
+		meets := math.Abs(w.SPerNm) >= scene.WeakBeamMinSPerNm && math.Abs(w.W) >= scene.WeakBeamMinW
+		if !meets && k < len(p.WeakBeam)-1 {
+			continue
 		}
+		why := "the smallest n with " + rule + ", so the image lies close to the core (Cockayne, Ray & Whelan 1969)"
+		if !meets {
+			why = "the largest n scanned; none of g(2g) … g(" + fmt.Sprint(w.N) + "g) meets " + rule + ": the image lies further from the core and is wider than in a true weak-beam condition (Cockayne, Ray & Whelan 1969)"
+		}
+		p.Suggestions = append(p.Suggestions, Suggestion{What: weakBeamWhat(w), Why: why})
+		break
 	}
 	// g·b: the reflections that make each candidate invisible.
 	if t := p.GB; t != nil {
@@ -78,4 +79,29 @@ func (p *Plan) suggest() {
 			}
 		}
 	}
+}
+
+// weakBeamWhat describes the weak-beam image at one condition: its peak
+// and width, or that they were not found or not resolved, and for a
+// dissociated dislocation the partials' peak separation.
+func weakBeamWhat(w WeakBeamPoint) string {
+	what := fmt.Sprintf("weak beam g(%dg): s = %.3f /nm, w = %.1f; ", w.N, w.SPerNm, w.W)
+	from, near := "the core", "the core"
+	if !math.IsNaN(w.ProjectedSepNm) {
+		from, near = "the ribbon's middle", "either partial's core"
+	}
+	switch {
+	case math.IsNaN(w.PeakNm):
+		what += fmt.Sprintf("image peak not found: no maximum rising %g %% of the profile's peak above the background on the side where s + g·dR/dz = 0 within %.2f nm of %s", 100*minRise, w.ReachNm, near)
+	case math.IsNaN(w.WidthNm):
+		what += fmt.Sprintf("image peak %.2f nm from %s, its width not resolved (half height not reached within the ±%.1f nm profile)", w.PeakNm, from, w.ProfileHalfNm)
+	default:
+		what += fmt.Sprintf("image peak %.2f nm from %s, %.2f nm wide", w.PeakNm, from, w.WidthNm)
+	}
+	if !math.IsNaN(w.MeasuredSepNm) {
+		what += fmt.Sprintf("; the partials' peaks %.2f nm apart for a projected separation of %.2f nm (multiply a measured width by %.2f)", w.MeasuredSepNm, w.ProjectedSepNm, w.ProjectedSepNm/w.MeasuredSepNm)
+	} else if !math.IsNaN(w.ProjectedSepNm) {
+		what += fmt.Sprintf("; the partials' images are not resolved here (projected separation %.2f nm)", w.ProjectedSepNm)
+	}
+	return what
 }
