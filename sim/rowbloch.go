@@ -272,7 +272,14 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	if math.Abs(kq) > 1<<40 || h <= 0 {
 		return false
 	}
-	b := st.bloch(int64(kq))
+	// The last grid slope's Bloch waves are kept at hand: consecutive
+	// slabs share it often (a fifth to a third of them on the tests'
+	// Stroh scenes).
+	b := st.lastB
+	if k := int64(kq); k != st.lastK || b == nil {
+		b = st.bloch(k)
+		st.lastK, st.lastB = k, b
+	}
 	if b == nil {
 		return false
 	}
@@ -298,7 +305,7 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	for j, l := range b.lam {
 		l = (l + b.p[j*nb+j]*complex(r, 0)) * complex(h, 0)
 		lh[j] = l
-		ex := math.Exp(real(l))
+		ex := expNear0(real(l))
 		s, c := math.Sincos(imag(l))
 		eps[j] = complex(ex*c, ex*s)
 		inv[j] = complex(c/ex, -s/ex)
@@ -395,9 +402,14 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 		}
 		return true
 	}
-	// u = V⁻¹ psi.
+	// u = V⁻¹ psi, or psi itself when it is already in this basis.
 	u, t, w := st.w[:nb], st.w[nb:2*nb], st.w[2*nb:3*nb]
-	matVec(u, b.vinv, psi, nb)
+	if st.basis == b {
+		copy(u, psi[:nb])
+	} else {
+		st.toBeams(psi)
+		matVec(u, b.vinv, psi, nb)
+	}
 	// u ← exp(Ω) u by its Taylor series, until the next term would be
 	// below blochExpTol of the vector (in 2-norm; compared squared).
 	copy(t, u)
@@ -422,18 +434,51 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 			break
 		}
 	}
+	// psi stays in the Bloch basis (see rowStepper.basis).
 	for j := range u[:nb] {
-		u[j] *= eps[j]
+		psi[j] = u[j] * eps[j]
 	}
-	matVec(psi, b.v, u, nb)
+	st.basis = b
 	return true
 }
 
-// matVec sets dst = a·x for the row-major n×n matrix a.
+// toBeams returns psi from the Bloch basis st.basis, if it is in one, to
+// the beams' amplitudes χ_n.
+func (st *rowStepper) toBeams(psi []complex128) {
+	if st.basis == nil {
+		return
+	}
+	u := st.w[2*st.nb : 3*st.nb]
+	copy(u, psi[:st.nb])
+	matVec(psi, st.basis.v, u, st.nb)
+	st.basis = nil
+}
+
+// matVec sets dst = a·x for the row-major n×n matrix a, two rows at a
+// time so that their dependent sums overlap.
 func matVec(dst, a, x []complex128, n int) {
 	x = x[:n]
-	for r := 0; r < n; r++ {
+	dst = dst[:n]
+	r := 0
+	for ; r+1 < n; r += 2 {
+		row0 := a[r*n : r*n+n]
+		row1 := a[r*n+n : r*n+2*n]
+		row0 = row0[:len(x)]
+		row1 = row1[:len(x)]
+		var re0, im0, re1, im1 float64
+		for k, v := range x {
+			c, d := row0[k], row1[k]
+			re0 += real(c)*real(v) - imag(c)*imag(v)
+			im0 += real(c)*imag(v) + imag(c)*real(v)
+			re1 += real(d)*real(v) - imag(d)*imag(v)
+			im1 += real(d)*imag(v) + imag(d)*real(v)
+		}
+		dst[r] = complex(re0, im0)
+		dst[r+1] = complex(re1, im1)
+	}
+	if r < n {
 		row := a[r*n : r*n+n]
+		row = row[:len(x)]
 		var re, im float64
 		for k, v := range x {
 			c := row[k]
@@ -442,4 +487,30 @@ func matVec(dst, a, x []complex128, n int) {
 		}
 		dst[r] = complex(re, im)
 	}
+}
+
+// expNear0 is e^a: for |a| ≤ 1/8 (the absorption over a slab, nearly
+// always) by its Taylor polynomial of degree 11, whose first omitted term
+// is below 1e-20 of the sum, else by math.Exp.
+func expNear0(a float64) float64 {
+	if !(math.Abs(a) <= 0.125) {
+		return math.Exp(a)
+	}
+	const (
+		c2  = 1.0 / 2
+		c3  = 1.0 / 6
+		c4  = 1.0 / 24
+		c5  = 1.0 / 120
+		c6  = 1.0 / 720
+		c7  = 1.0 / 5040
+		c8  = 1.0 / 40320
+		c9  = 1.0 / 362880
+		c10 = 1.0 / 3628800
+		c11 = 1.0 / 39916800
+	)
+	// Even and odd parts in a², two independent chains.
+	a2 := a * a
+	ev := 1 + a2*(c2+a2*(c4+a2*(c6+a2*(c8+a2*c10))))
+	od := a * (1 + a2*(c3+a2*(c5+a2*(c7+a2*(c9+a2*c11)))))
+	return ev + od
 }

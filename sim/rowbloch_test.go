@@ -31,6 +31,7 @@ func slabDiff(m SystematicRow, gamma func(float64) float64, z, h float64, magnus
 	if !bloch && !magnus {
 		st.crystalMagnus(got, h, (gamma(z+h)-gamma(z))/h, 0, 0)
 	}
+	st.toBeams(got) // out of the Bloch basis the slab leaves psi in
 	ref := make([]complex128, nb)
 	st.Start(ref)
 	const sub = 256

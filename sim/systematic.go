@@ -185,6 +185,16 @@ type rowStepper struct {
 	lam       []complex128
 	eps, einv []complex128
 	om        []complex128
+	// lastK and lastB are the grid slope of the last Bloch-wave slab and
+	// its decomposition (lastB nil: none yet).
+	lastK int64
+	lastB *rowBloch
+	// basis, when not nil, says that psi holds the amplitudes of the Bloch
+	// waves of basis (u = V⁻¹χ) rather than χ: consecutive Bloch-wave
+	// slabs at the same grid slope (a fifth to a third of them on the
+	// tests' Stroh scenes) skip the V and V⁻¹ between them. Every other
+	// method returns psi to χ first (toBeams); Start resets it.
+	basis *rowBloch
 }
 
 func (st *rowStepper) Start(psi []complex128) {
@@ -192,6 +202,7 @@ func (st *rowStepper) Start(psi []complex128) {
 		psi[k] = 0
 	}
 	psi[st.half] = 1
+	st.basis = nil
 }
 
 // Crystal advances psi through a slab, exactly as the two-beam stepper
@@ -225,6 +236,7 @@ func (st *rowStepper) Crystal(psi []complex128, h, slope, d1, d2 float64) {
 // crystalMagnus is the fourth-order commutator-free Magnus step of Crystal
 // with the exponentials by Taylor series.
 func (st *rowStepper) crystalMagnus(psi []complex128, h, slope, d1, d2 float64) {
+	st.toBeams(psi)
 	n2 := 2 * st.half
 	nq := 2*n2 + 1
 	// Powers of the node phases: e_k^j = exp(2πi j d_k), j = −2N…2N.
@@ -372,6 +384,7 @@ const eigenNorm = 60
 // δ = 0: from a kept eigen-decomposition of M for this slope if there is
 // one, by a new one if the slab is long, else by the Taylor series.
 func (st *rowStepper) perfect(psi []complex128, h, slope float64) {
+	st.toBeams(psi)
 	for _, e := range st.eig {
 		if e.slope == slope {
 			e.apply(psi, h)
@@ -536,18 +549,21 @@ func (st *rowStepper) Beat(slope float64) float64 {
 }
 
 func (st *rowStepper) Vacuum(psi []complex128, h float64) {
+	st.toBeams(psi)
 	for k := range psi {
 		psi[k] *= phase(st.s[k] * h)
 	}
 }
 
 func (st *rowStepper) Shift(psi []complex128, dGamma float64) {
+	st.toBeams(psi)
 	for k := range psi {
 		psi[k] *= phase(float64(k-st.half) * dGamma)
 	}
 }
 
 func (st *rowStepper) Intensities(psi []complex128, out []float64) {
+	st.toBeams(psi)
 	for k, v := range psi {
 		out[k] = sq(v)
 	}
