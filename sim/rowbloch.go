@@ -313,16 +313,21 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	// Ω (the factor 2πi is in b.p) and its Frobenius norm. Its diagonal,
 	// 2πi P_jj ∫δ', is zero. The pairs (j, k)
 	// and (k, j) share x up to its sign.
-	om := st.om
-	for j := 0; j < nb; j++ {
-		om[j*nb+j] = 0
-	}
+	om := st.om[:nb*nb]
+	// The diagonal's secular terms, gathered apart.
+	var dgs [2*MaxRowOrder + 1]complex128
+	dg := dgs[:len(lh)]
 	r2h2 := rh * rh
+	hs := r2h2 / 2
 	fro := 0.0 // ‖Ω‖²_F
 	p, pp := b.p[:nb*nb], b.pp[:nb*nb]
-	for j := 0; j < nb; j++ {
-		for k := j + 1; k < nb; k++ {
-			x := lh[k] - lh[j]
+	eps, inv = eps[:len(lh)], inv[:len(lh)]
+	for j := range lh {
+		lj, ej, ij := lh[j], eps[j], inv[j]
+		pj, ppj, oj := p[j*nb:j*nb+nb], pp[j*nb:j*nb+nb], om[j*nb:j*nb+nb]
+		pj, ppj, oj = pj[:len(lh)], ppj[:len(lh)], oj[:len(lh)]
+		for k := j + 1; k < len(lh); k++ {
+			x := lh[k] - lj
 			xr, xi := real(x), imag(x)
 			var ijk, ikj, sec complex128
 			if abs1(xr, xi) < blochSeriesX {
@@ -333,15 +338,8 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 					}
 					haveMom = true
 				}
-				// Horner in x and in −x.
-				var sp, sm complex128
-				for m := blochSeriesTerms - 1; m >= 0; m-- {
-					sp = sp*x + complex(mom[m], 0)
-					sm = sm*(-x) + complex(mom[m], 0)
-				}
-				ijk, ikj = sp, sm
-				x2 := x * x
-				sec = x * (1.0/6 + x2*(1.0/120+x2*(1.0/5040+x2*(1.0/362880))))
+				ijk, ikj, sec = seriesPair(x, mom)
+				sec *= complex(r2h2, 0)
 			} else {
 				// ∫₀¹ F e^{xt} dt = (F(1)eˣ − F(0))/x − (F'(1)eˣ − F'(0))/x²
 				//                  + F''(eˣ − 1)/x³, and the same at −x: the
@@ -349,34 +347,33 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 				d := 1 / (xr*xr + xi*xi)
 				ur, ui := xr*d, -xi*d
 				u2r, u2i := ur*ur-ui*ui, 2*ur*ui
-				u3r, u3i := u2r*ur-u2i*ui, u2r*ui+u2i*ur
+				u3r, u3i := f2*(u2r*ur-u2i*ui), f2*(u2r*ui+u2i*ur)
 				// Odd and even parts at t = 1 and t = 0.
-				o1r, o1i := fe*ur+f2*u3r, fe*ui+f2*u3i
+				o1r, o1i := fe*ur+u3r, fe*ui+u3i
 				e1r, e1i := -fe1*u2r, -fe1*u2i
-				o0r, o0i := f0*ur+f2*u3r, f0*ui+f2*u3i
+				o0r, o0i := f0*ur+u3r, f0*ui+u3i
 				e0r, e0i := -f1*u2r, -f1*u2i
-				ex := eps[k] * inv[j] // e^{x}
-				emx := eps[j] * inv[k]
+				ex := eps[k] * ij // e^{x}
+				emx := ej * inv[k]
 				ijk = ex*complex(e1r+o1r, e1i+o1i) - complex(e0r+o0r, e0i+o0i)
 				ikj = emx*complex(e1r-o1r, e1i-o1i) - complex(e0r-o0r, e0i-o0i)
-				sec = (ex-emx)*complex(u2r/2, u2i/2) - complex(ur, ui)
+				// (r h)² times the secular integral.
+				sec = (ex-emx)*complex(u2r*hs, u2i*hs) - complex(ur*r2h2, ui*r2h2)
 			}
-			ojk, okj := p[j*nb+k]*ijk, p[k*nb+j]*ikj
-			om[j*nb+k] = ojk
+			ojk, okj := pj[k]*ijk, p[k*nb+j]*ikj
+			oj[k] = ojk
 			om[k*nb+j] = okj
 			fro += sq(ojk) + sq(okj)
 			// The second Magnus term of the constant r, on the diagonal.
-			if r2h2 != 0 {
-				d2 := pp[j*nb+k] * sec
-				d2 = complex(real(d2)*r2h2, imag(d2)*r2h2)
-				om[j*nb+j] += d2
-				om[k*nb+k] -= d2
-			}
+			d2 := ppj[k] * sec
+			dg[j] += d2
+			dg[k] -= d2
 		}
 	}
 	// ‖Ω‖_F, a bound on its 2-norm.
-	for j := 0; j < nb; j++ {
-		fro += sq(om[j*nb+j])
+	for j := range lh {
+		om[j*nb+j] = dg[j]
+		fro += sq(dg[j])
 	}
 	if fro > blochMaxOmega*blochMaxOmega {
 		if halvings == 0 {
@@ -419,15 +416,7 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	}
 	tol2 := blochExpTol * blochExpTol * un
 	for m := 1; m < 30; m++ {
-		matVec(w, om, t, nb)
-		cm := 1 / float64(m)
-		tn := 0.0
-		for j := range w[:nb] {
-			v := w[j] * complex(cm, 0)
-			w[j] = v
-			u[j] += v
-			tn += sq(v)
-		}
+		tn := taylorTerm(w, u, om, t, 1/float64(m))
 		t, w = w, t
 		// The next term is at most this one times ‖Ω‖/(m+1).
 		if d := float64(m + 1); tn*fro <= tol2*d*d {
@@ -452,6 +441,65 @@ func (st *rowStepper) toBeams(psi []complex128) {
 	copy(u, psi[:st.nb])
 	matVec(psi, st.basis.v, u, st.nb)
 	st.basis = nil
+}
+
+// seriesPair returns the pair integrals of blochSlab for small x by their
+// series from the moments mom: ∫₀¹ F e^{xt} dt, the same at −x (Horner in
+// x and in −x), and the secular integral sinh x/x² − 1/x (without the
+// factor (r h)²).
+func seriesPair(x complex128, mom []float64) (ijk, ikj, sec complex128) {
+	for m := len(mom) - 1; m >= 0; m-- {
+		ijk = ijk*x + complex(mom[m], 0)
+		ikj = ikj*(-x) + complex(mom[m], 0)
+	}
+	x2 := x * x
+	sec = x * (1.0/6 + x2*(1.0/120+x2*(1.0/5040+x2*(1.0/362880))))
+	return ijk, ikj, sec
+}
+
+// taylorTerm sets w = c·a·t for the row-major n×n matrix a (n = len(t)),
+// adds w to u and returns Σ|w_r|²: one term of a Taylor series, two rows
+// at a time.
+func taylorTerm(w, u, a, t []complex128, c float64) float64 {
+	n := len(t)
+	w, u = w[:n], u[:n]
+	tn := 0.0
+	r := 0
+	for ; r+1 < n; r += 2 {
+		row0 := a[r*n : r*n+n]
+		row1 := a[r*n+n : r*n+2*n]
+		row0 = row0[:len(t)]
+		row1 = row1[:len(t)]
+		var re0, im0, re1, im1 float64
+		for k, v := range t {
+			x, y := row0[k], row1[k]
+			re0 += real(x)*real(v) - imag(x)*imag(v)
+			im0 += real(x)*imag(v) + imag(x)*real(v)
+			re1 += real(y)*real(v) - imag(y)*imag(v)
+			im1 += real(y)*imag(v) + imag(y)*real(v)
+		}
+		re0, im0, re1, im1 = c*re0, c*im0, c*re1, c*im1
+		w[r] = complex(re0, im0)
+		w[r+1] = complex(re1, im1)
+		u[r] += complex(re0, im0)
+		u[r+1] += complex(re1, im1)
+		tn += re0*re0 + im0*im0 + re1*re1 + im1*im1
+	}
+	if r < n {
+		row := a[r*n : r*n+n]
+		row = row[:len(t)]
+		var re, im float64
+		for k, v := range t {
+			x := row[k]
+			re += real(x)*real(v) - imag(x)*imag(v)
+			im += real(x)*imag(v) + imag(x)*real(v)
+		}
+		re, im = c*re, c*im
+		w[r] = complex(re, im)
+		u[r] += complex(re, im)
+		tn += re*re + im*im
+	}
+	return tn
 }
 
 // matVec sets dst = a·x for the row-major n×n matrix a, two rows at a
