@@ -402,14 +402,18 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	// u = V⁻¹ psi, or psi itself when it is already in this basis.
 	u, t, w := st.w[:nb], st.w[nb:2*nb], st.w[2*nb:3*nb]
 	if st.basis == b {
-		copy(u, psi[:nb])
+		for j := range u {
+			u[j] = psi[j]
+		}
 	} else {
 		st.toBeams(psi)
 		matVec(u, b.vinv, psi, nb)
 	}
 	// u ← exp(Ω) u by its Taylor series, until the next term would be
 	// below blochExpTol of the vector (in 2-norm; compared squared).
-	copy(t, u)
+	for j, v := range u {
+		t[j] = v
+	}
 	un := 0.0
 	for _, v := range u[:nb] {
 		un += sq(v)
@@ -438,7 +442,9 @@ func (st *rowStepper) toBeams(psi []complex128) {
 		return
 	}
 	u := st.w[2*st.nb : 3*st.nb]
-	copy(u, psi[:st.nb])
+	for j := range u {
+		u[j] = psi[j]
+	}
 	matVec(psi, st.basis.v, u, st.nb)
 	st.basis = nil
 }

@@ -533,8 +533,15 @@ func (e *rowEigen) apply(psi []complex128, h float64) {
 // a beam far from the Bragg condition carries an amplitude of order
 // 1/(ξ|s_n|) and its fast phase is handled exactly by the exponentials.
 func (st *rowStepper) Beat(slope float64) float64 {
+	return math.Sqrt(st.beat2(slope))
+}
+
+// beat2 is the square of Beat, without its square roots (the step
+// control needs only the square).
+func (st *rowStepper) beat2(slope float64) float64 {
 	b := 0.0
 	u := st.maxInvXi
+	u2 := u * u
 	for k, s := range st.s {
 		n := float64(k - st.half)
 		if n == 0 {
@@ -542,7 +549,7 @@ func (st *rowStepper) Beat(slope float64) float64 {
 		}
 		x := s + n*slope
 		if n == 1 || math.Abs(x) <= 2*u {
-			b = math.Max(b, math.Sqrt(x*x+u*u))
+			b = math.Max(b, x*x+u2)
 		}
 	}
 	return b
