@@ -245,15 +245,22 @@ func invertComplex(a []complex128, n int) bool {
 	return true
 }
 
-// matMul sets dst = a·b for row-major n×n matrices (dst distinct from both).
+// matMul sets dst = a·b for row-major n×n matrices (dst distinct from both):
+// each row of dst as the sum of the rows of b weighted by that row of a,
+// along contiguous rows.
 func matMul(dst, a, b []complex128, n int) {
 	for i := 0; i < n; i++ {
-		for k := 0; k < n; k++ {
-			var acc complex128
-			for m := 0; m < n; m++ {
-				acc += a[i*n+m] * b[m*n+k]
+		d := dst[i*n : i*n+n]
+		for k := range d {
+			d[k] = 0
+		}
+		for m, c := range a[i*n : i*n+n] {
+			row := b[m*n : m*n+n]
+			row = row[:len(d)]
+			cr, ci := real(c), imag(c)
+			for k, v := range row {
+				d[k] += complex(cr*real(v)-ci*imag(v), cr*imag(v)+ci*real(v))
 			}
-			dst[i*n+k] = acc
 		}
 	}
 }
