@@ -308,7 +308,8 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 		ex := expNear0(real(l))
 		s, c := math.Sincos(imag(l))
 		eps[j] = complex(ex*c, ex*s)
-		inv[j] = complex(c/ex, -s/ex)
+		ie := 1 / ex
+		inv[j] = complex(c*ie, -s*ie)
 	}
 	// Ω (the factor 2πi is in b.p) and its Frobenius norm. Its diagonal,
 	// 2πi P_jj ∫δ', is zero. The pairs (j, k)
