@@ -74,19 +74,11 @@ const nearbyDeviation = 0.01
 // them reuse every column. Models of other types give none (a replay then
 // integrates afresh only the columns whose slabs fail with the new s).
 func NearbyModels(st *scene.Setup) []sim.Model {
-	switch m := st.Problem.Model.(type) {
-	case sim.TwoBeam:
-		lo, hi := m, m
-		lo.SPerNm -= nearbyDeviation
-		hi.SPerNm += nearbyDeviation
-		return []sim.Model{lo, hi}
-	case sim.Kinematical:
-		lo, hi := m, m
-		lo.SPerNm -= nearbyDeviation
-		hi.SPerNm += nearbyDeviation
-		return []sim.Model{lo, hi}
+	s, model, ok := SModel(st)
+	if !ok {
+		return nil
 	}
-	return nil
+	return []sim.Model{model(s - nearbyDeviation), model(s + nearbyDeviation)}
 }
 
 // Replay renders the setup's problem from recorded samples (which must

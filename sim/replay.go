@@ -199,10 +199,20 @@ func Record(ctx context.Context, p *Problem, opt RecordOptions) (*Image, *Sample
 // g, foil normal, grid and tolerance, and a thickness up to the recorded
 // one. The model may differ in anything.
 func (s *Samples) Serves(p *Problem) bool {
-	q := s.p
-	return p.GPerNm == q.GPerNm && p.Normal == q.Normal && p.Grid == q.Grid &&
-		p.Tolerance == q.Tolerance && p.ThicknessNm > 0 && p.ThicknessNm <= q.ThicknessNm &&
-		sameField(p.Field, q.Field)
+	return s.servesThickness(p) && sameField(p.Field, s.p.Field)
+}
+
+// servesThickness reports whether p shares the recorded problem's frame
+// and asks for a thickness up to the recorded one.
+func (s *Samples) servesThickness(p *Problem) bool {
+	return sameFrame(p, &s.p) && p.ThicknessNm > 0 && p.ThicknessNm <= s.p.ThicknessNm
+}
+
+// sameFrame reports whether p and q share g, the foil normal, the grid
+// and the tolerance: what the field samples of a render depend on
+// besides the field and the thickness.
+func sameFrame(p, q *Problem) bool {
+	return p.GPerNm == q.GPerNm && p.Normal == q.Normal && p.Grid == q.Grid && p.Tolerance == q.Tolerance
 }
 
 // sameField reports whether a and b are the same field value: equal

@@ -7,8 +7,5 @@ package sim
 // and tolerance equal, and a thickness up to the recorded one. Serves
 // checks the field as well.
 func (s *Samples) ServesGeometry(p *Problem) bool {
-	q := s.p
-	return p.GPerNm == q.GPerNm && p.Normal == q.Normal && p.Grid == q.Grid &&
-		p.Tolerance == q.Tolerance && p.ThicknessNm > 0 && p.ThicknessNm <= q.ThicknessNm &&
-		(p.Field == nil) == (q.Field == nil)
+	return s.servesThickness(p) && (p.Field == nil) == (s.p.Field == nil)
 }

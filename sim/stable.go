@@ -163,8 +163,7 @@ func (t *STable) Serves(p *Problem, s float64) bool {
 // the same field value (see Samples.Serves), g, foil normal, grid,
 // tolerance and thickness.
 func SameBesidesModel(p, q *Problem) bool {
-	return p.GPerNm == q.GPerNm && p.Normal == q.Normal && p.Grid == q.Grid &&
-		p.Tolerance == q.Tolerance && p.ThicknessNm == q.ThicknessNm && sameField(p.Field, q.Field)
+	return sameFrame(p, q) && p.ThicknessNm == q.ThicknessNm && sameField(p.Field, q.Field)
 }
 
 // TabulateS builds the table of the exit intensities of every column for

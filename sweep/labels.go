@@ -95,19 +95,20 @@ func MakeLabels(st *scene.Setup, widthPx float64) (*Labels, *image.Gray16, error
 			Polylines: [][][2]float64{}, Polygons: [][][2]float64{}, Ellipses: []LabelEllipse{}, Circles: []LabelCircle{}}
 		var strokes [][][2]float64 // open or closed paths labelled within the width
 		var fills [][][2]float64   // closed areas labelled inside
-		for _, l := range o.Lines {
+		path := func(l []scene.Point) [][2]float64 {
 			pl := make([][2]float64, len(l))
 			for j, p := range l {
 				pl[j] = px(p)
 			}
+			return pl
+		}
+		for _, l := range o.Lines {
+			pl := path(l)
 			ld.Polylines = append(ld.Polylines, pl)
 			strokes = append(strokes, pl)
 		}
 		for _, poly := range o.Polygons {
-			pl := make([][2]float64, len(poly))
-			for j, p := range poly {
-				pl[j] = px(p)
-			}
+			pl := path(poly)
 			ld.Polygons = append(ld.Polygons, pl)
 			fills = append(fills, pl)
 			strokes = append(strokes, append(pl[:len(pl):len(pl)], pl[0]))
