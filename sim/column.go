@@ -24,6 +24,23 @@ import (
 // is predicted the same way from the accepted one (at most tripling), and
 // the first slab of a stretch holds firstCycles of the beat. With a perfect crystal the chord
 // is exact and the column is crossed in one closed-form slab.
+//
+// The systematic row's Bloch-wave step (rowbloch.go) errs differently.
+// For a departure that the two Gauss nodes see (quadratic or cubic in
+// depth) its error is of second order in the departure, at most
+// rowSecondOrder·D² whatever the beat, where the two-beam step's is
+// 12 c² D (TestRowSlabErrorModel). What limits its slabs is the content
+// the nodes do not see. For a column whose steppers all take that step
+// (secondOrderStepper) the indicator is therefore
+//
+//	e = max(D·(floorWeight + rowSecondOrder·D), midWeight·m),
+//
+// D = max(|d1|, |d2|) and m the departure at the slab's midpoint from the
+// cubic through the ends and the nodes (one more sample of g·R, taken
+// only when the first term passes): the quartic content, which the nodes
+// miss. m ∝ h⁴ in the prediction of the next slab's length. The beat does
+// not enter, so slabs recorded under this indicator serve every
+// systematic row alike (beatWithin).
 const (
 	// DefaultTolerance is the tolerance in cycles. With it the exit
 	// intensities agree with a converged solution to better than 1e-4 of
@@ -56,6 +73,17 @@ const (
 	// unit departure); the floor bounds the content of higher order that
 	// the two nodes do not see.
 	floorWeight = 0.1
+	// rowSecondOrder bounds the Bloch-wave step's error per squared
+	// departure, K in K·D² (amplitude per cycle²): measured at most 59 for
+	// 7 beams and 52 for 15, over 1–50 nm slabs, 0.02–4 beat cycles and
+	// departures of 1e-5 to 1e-3 cycles (TestRowSlabErrorModel); 80 with a
+	// margin.
+	rowSecondOrder = 80
+	// midWeight weighs the quartic content m seen at a slab's midpoint:
+	// the Bloch-wave step's amplitude error per unit of it is at most 4.7
+	// (measured over the same range); twice that, for the quintic content
+	// the midpoint does not see either.
+	midWeight = 10
 )
 
 // column integrates one column; each worker owns one.
@@ -87,6 +115,32 @@ type column struct {
 	// check says whether replay re-checks each recorded slab with the
 	// model's beat.
 	check bool
+	// mid says that the column's steppers all take the Bloch-wave step,
+	// whose slabs are checked at their midpoints (see the step control
+	// above); set by run.
+	mid bool
+}
+
+// secondOrderStepper is implemented by steppers whose slab error is of
+// second order in a departure the Gauss nodes see (the systematic row's
+// Bloch-wave step), so that the step control above need not weigh the
+// beat.
+type secondOrderStepper interface {
+	secondOrder()
+}
+
+// midChecked reports whether st and every stepper of also are
+// secondOrderSteppers.
+func midChecked(st Stepper, also []Stepper) bool {
+	if _, ok := st.(secondOrderStepper); !ok {
+		return false
+	}
+	for _, a := range also {
+		if _, ok := a.(secondOrderStepper); !ok {
+			return false
+		}
+	}
+	return true
 }
 
 // newColumn returns a column integrator for p; phase is g·R of p.Field
@@ -152,6 +206,7 @@ func (c *column) gamma(z float64) float64 {
 func (c *column) run(x, y float64) {
 	c.x, c.y = x, y
 	z0, z1 := c.p.surfaces(x, y)
+	c.mid = midChecked(c.st, c.also)
 	c.st.Start(c.psi)
 	c.breaks = c.breaks[:0]
 	c.voids = c.voids[:0]
@@ -223,7 +278,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 	za := a
 	h := math.Min(b-a, firstCycles/c.beat(0))
 	for b-za > 1e-12 {
-		var gb, d1, d2, dep, cyc2 float64
+		var gb, d1, d2, quad, quart, rm float64
 		known := math.NaN() // γ(za + h) when a rejected slab sampled it
 		for {
 			last := za+h >= b-1e-12
@@ -237,13 +292,29 @@ func (c *column) segment(a, b, ga float64) float64 {
 				gb = c.gamma(za + h)
 			}
 			d := gb - ga
-			cyc2 = c.beat2(d/h) * (h * h) // (beat cycles)², before the nodes
+			cyc2 := 0.0
+			if !c.mid {
+				cyc2 = c.beat2(d/h) * (h * h) // (beat cycles)², before the nodes
+			}
 			g1 := c.gamma(za + gaussNodes[0]*h)
 			g2 := c.gamma(za + gaussNodes[1]*h)
 			d1 = g1 - ga - gaussNodes[0]*d
 			d2 = g2 - ga - gaussNodes[1]*d
-			dep = absMax(d1, d2)
-			err := dep * (floorWeight + cyc2*invBeatScale2)
+			dep := absMax(d1, d2)
+			// The indicator's parts that grow as h² and h⁴, and the
+			// factor (rm) the midpoint's content asks of h.
+			quad, quart, rm = floorWeight*dep, dep*cyc2*invBeatScale2, math.Inf(1)
+			if c.mid {
+				quart = rowSecondOrder * dep * dep
+			}
+			err := quad + quart
+			if c.mid && err <= c.tol {
+				m := math.Abs(c.gamma(za+h/2) - ga - d/2 - cubicMid(d1, d2))
+				if em := midWeight * m; em > err {
+					err = em
+					rm = math.Sqrt(math.Sqrt(safety * c.tol / em))
+				}
+			}
 			if x := err + d1 + d2; x-x != 0 { // a NaN or an infinity
 				// The field is not finite here: poison the amplitudes so
 				// Render reports the column, and stop.
@@ -254,7 +325,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 				break
 			}
 			c.nRejects++
-			r := clamp(predict(dep, cyc2, c.tol), 0.1, 0.9)
+			r := clamp(math.Min(rm, predict(quad, quart, c.tol)), 0.1, 0.9)
 			known = math.NaN()
 			if r >= reuseFrom {
 				// Retry ending at the second Gauss node, whose γ is known.
@@ -268,7 +339,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 		}
 		// The next slab's length first: its square roots and division
 		// overlap the step.
-		next := h * clamp(predict(dep, cyc2, c.tol), 0, 3)
+		next := h * clamp(math.Min(rm, predict(quad, quart, c.tol)), 0, 3)
 		c.st.Crystal(c.psi, h, (gb-ga)/h, d1, d2)
 		c.rec.slab(h, gb-ga, d1, d2)
 		c.nSlabs++
@@ -277,6 +348,13 @@ func (c *column) segment(a, b, ga float64) float64 {
 		h = next
 	}
 	return ga
+}
+
+// cubicMid is the departure at a slab's midpoint of the cubic through
+// δ = 0 at its ends and d1, d2 at its Gauss nodes (see partSlab).
+func cubicMid(d1, d2 float64) float64 {
+	b := 6 * (d2 - d1) / (gaussNodes[1] - gaussNodes[0])
+	return (6*d1 - b*gaussNodes[0] + b/2) / 4
 }
 
 // indicator is the error indicator of a slab of length h with departures
@@ -315,17 +393,16 @@ func clamp(x, lo, hi float64) float64 {
 // tolerance tol; the shortest slab always does.
 func accept(err, tol, h float64) bool { return err <= tol || h <= minSlabNm }
 
-// predict returns the factor r by which a slab of departure dep holding
-// cyc beat cycles (cyc2 = cyc²) is scaled so that its indicator, with
-// dep ∝ h² and cyc ∝ h, meets safety × tol: the positive root of
-// A r² + B r⁴ = safety·tol, A = floorWeight·dep, B = dep·(cyc/beatScale)².
-func predict(dep, cyc2, tol float64) float64 {
-	if dep == 0 {
+// predict returns the factor r by which a slab whose indicator is
+// aa + bb, aa growing as h² and bb as h⁴ (floorWeight·D and D·(c/beatScale)²
+// or rowSecondOrder·D², with D ∝ h² and c ∝ h), is scaled so that its
+// indicator meets safety × tol: the positive root of
+// aa r² + bb r⁴ = safety·tol.
+func predict(aa, bb, tol float64) float64 {
+	if aa == 0 {
 		return math.Inf(1)
 	}
 	t := safety * tol
-	aa := floorWeight * dep
-	bb := dep * cyc2 * invBeatScale2
 	if bb < 1e-6*aa {
 		return math.Sqrt(t / aa)
 	}

@@ -328,20 +328,33 @@ func (c *column) replay(x, y float64, steps []step, gamma0 float64) bool {
 // samples (zero at its ends, d1 and d2 at the nodes u1,2 = 1/2 ∓ √3/6,
 // where u(1−u) = 1/6).
 func partSlab(h, rise, d1, d2, f float64) (float64, float64, float64, float64) {
+	slope, e1, e2 := cubicPart(h, rise/h, d1, d2, 0, f)
+	return f * h, slope * f * h, e1, e2
+}
+
+// cubicPart returns the chord slope and the Gauss-node departures of the
+// part [u0, u1] (fractions of its length h) of a slab with chord slope
+// slope whose departure is the cubic u(1−u)(α + βu) through its samples
+// (zero at its ends, d1 and d2 at the nodes, where u(1−u) = 1/6).
+func cubicPart(h, slope, d1, d2, u0, u1 float64) (float64, float64, float64) {
 	beta := 6 * (d2 - d1) / (gaussNodes[1] - gaussNodes[0])
 	alpha := 6*d1 - beta*gaussNodes[0]
 	dep := func(u float64) float64 { return u * (1 - u) * (alpha + beta*u) }
-	df := dep(f)
-	e1 := dep(f*gaussNodes[0]) - gaussNodes[0]*df
-	e2 := dep(f*gaussNodes[1]) - gaussNodes[1]*df
-	return f * h, f*rise + df, e1, e2
+	c0, c1 := dep(u0), dep(u1)
+	du := u1 - u0
+	e1 := dep(u0+gaussNodes[0]*du) - c0 - gaussNodes[0]*(c1-c0)
+	e2 := dep(u0+gaussNodes[1]*du) - c0 - gaussNodes[1]*(c1-c0)
+	return slope + (c1-c0)/(du*h), e1, e2
 }
 
-// beatWithin reports whether m's beat is nowhere above the largest of
-// the recorded models' beats, at any chord slope: for two-beam (and
-// kinematical) models with the same ξ_g, when m's s lies within the
-// recorded ones' range (the beat sqrt((s + β)² + 1/ξ_g²) is convex in s)
-// and m's 1/ξ_g is not larger. Otherwise every replayed slab is checked.
+// beatWithin reports whether slabs recorded with the recorded models
+// pass m's step control unchecked: for two-beam (and kinematical) models
+// with the same ξ_g, when m's beat is nowhere above the largest of the
+// recorded models' beats, at any chord slope (m's s lies within the
+// recorded ones' range, the beat sqrt((s + β)² + 1/ξ_g²) being convex in
+// s, and m's 1/ξ_g is not larger); for a systematic row, when the
+// recorded models are all systematic rows (rowsOnly). Otherwise every
+// replayed slab is checked.
 func beatWithin(m Model, recorded []Model) bool {
 	lo, hi := math.Inf(1), math.Inf(-1)
 	switch m := m.(type) {
@@ -363,6 +376,21 @@ func beatWithin(m Model, recorded []Model) bool {
 			lo, hi = math.Min(lo, r.SPerNm), math.Max(hi, r.SPerNm)
 		}
 		return m.SPerNm >= lo && m.SPerNm <= hi
+	case SystematicRow:
+		return rowsOnly(recorded)
 	}
 	return false
+}
+
+// rowsOnly reports whether every model is a systematic row: slabs recorded
+// with them passed the Bloch-wave step's indicator, which does not depend
+// on the model (see the step control in column.go), so they serve any
+// systematic row unchecked.
+func rowsOnly(models []Model) bool {
+	for _, m := range models {
+		if _, ok := m.(SystematicRow); !ok {
+			return false
+		}
+	}
+	return len(models) > 0
 }

@@ -380,23 +380,17 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 		if halvings == 0 {
 			return false
 		}
-		// δ at the middle, and at the Gauss nodes of the halves, from the
-		// cubic; each half's departures are from its own chord.
-		cubic := func(t float64) float64 { return t * (1 - t) * (aa + bb*t) }
-		dm := cubic(0.5)
-		g0, g1 := gaussNodes[0], gaussNodes[1]
-		a1 := cubic(g0/2) - g0*dm
-		a2 := cubic(g1/2) - g1*dm
-		b1 := cubic(0.5+g0/2) - dm*(1-g0)
-		b2 := cubic(0.5+g1/2) - dm*(1-g1)
+		// Each half with its own chord and departures, from the cubic.
+		sa, a1, a2 := cubicPart(h, slope, d1, d2, 0, 0.5)
+		sb, b1, b2 := cubicPart(h, slope, d1, d2, 0.5, 1)
 		hh := h / 2
-		if !st.blochSlab(psi, hh, slope+dm/hh, a1, a2, halvings-1) {
+		if !st.blochSlab(psi, hh, sa, a1, a2, halvings-1) {
 			return false
 		}
-		if !st.blochSlab(psi, hh, slope-dm/hh, b1, b2, halvings-1) {
+		if !st.blochSlab(psi, hh, sb, b1, b2, halvings-1) {
 			// psi has taken the first half: finish by the Magnus–Taylor
 			// step.
-			st.crystalMagnus(psi, hh, slope-dm/hh, b1, b2)
+			st.magnusPieces(psi, hh, sb, b1, b2)
 		}
 		return true
 	}
@@ -434,6 +428,34 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	}
 	st.basis = b
 	return true
+}
+
+// secondOrder marks the row's step for the column's step control: its
+// error is of second order in the departures (see column.go). Where the
+// Bloch-wave step is out of reach, magnusPieces keeps that true.
+func (st *rowStepper) secondOrder() {}
+
+// magnusPieceCycles is the most beat cycles a piece of magnusPieces
+// holds: the fourth-order step's error per unit departure, about 12 c²
+// (TestSlabErrorModel), is then 0.12, about the step control's floor.
+const magnusPieceCycles = 0.1
+
+// magnusPieces takes a slab by the Magnus–Taylor step (crystalMagnus) in
+// equal pieces of at most magnusPieceCycles beat cycles, each with its
+// chord and departures from the slab's cubic: the step for a slab the
+// Bloch-wave step cannot take, whose length the step control chose for
+// the Bloch-wave step's error.
+func (st *rowStepper) magnusPieces(psi []complex128, h, slope, d1, d2 float64) {
+	n := math.Ceil(math.Sqrt(st.beat2(slope)) * h / magnusPieceCycles)
+	if !(n > 1) {
+		st.crystalMagnus(psi, h, slope, d1, d2)
+		return
+	}
+	n = math.Min(n, 1<<16)
+	for k := 0.0; k < n; k++ {
+		sp, e1, e2 := cubicPart(h, slope, d1, d2, k/n, (k+1)/n)
+		st.crystalMagnus(psi, h/n, sp, e1, e2)
+	}
 }
 
 // toBeams returns psi from the Bloch basis st.basis, if it is in one, to

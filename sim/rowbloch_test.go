@@ -167,3 +167,88 @@ func TestRowRenderSameWhateverTheWorkers(t *testing.T) {
 		}
 	}
 }
+
+func TestRowSlabErrorModel(t *testing.T) {
+	// The error model of the step control for the Bloch-wave step (see
+	// column.go), as TestSlabErrorModel for two beams: one slab with a
+	// departure δ(z) from its chord, against the same slab in 2000
+	// Magnus–Taylor sub-slabs, for 7 and 15 beams at the Bragg position
+	// and at g(3g), slabs of 1–50 nm at three chord slopes (0.02–4 beat
+	// cycles), departures D of 1e-5 to 1e-3 cycles at the Gauss nodes.
+	//   - δ quadratic or cubic (what the nodes see): the amplitude error
+	//     is at most rowSecondOrder·D², whatever the beat (the two-beam
+	//     step's is 12 c² D);
+	//   - δ quartic with zero at the nodes (what they miss): the error is
+	//     at most midWeight/2 per unit of δ at the midpoint.
+	c := testLambdaNm * testGPerNm * testGPerNm / 2
+	shapes := []struct {
+		name  string
+		quart bool
+		f     func(u float64) float64 // peak 1 at the nodes or, quartic, at the midpoint
+	}{
+		{"quadratic", false, func(u float64) float64 { return 6 * u * (1 - u) }},
+		// u(1−u)(2u−1) is ∓√3/18 at the nodes.
+		{"cubic", false, func(u float64) float64 { return 18 / math.Sqrt(3) * u * (1 - u) * (2*u - 1) }},
+		// Zero at the ends and at the nodes, where u(1−u) = 1/6.
+		{"quartic", true, func(u float64) float64 { x := u * (1 - u); return x * (x - 1.0/6) / (0.25 * (0.25 - 1.0/6)) }},
+	}
+	worstK, worstMid := 0.0, 0.0
+	for _, n := range []int{3, 7} {
+		for _, s1 := range []float64{0, 2 * c} {
+			m := testRow(n, s1, 0.1)
+			st := m.NewStepper().(*rowStepper)
+			nb := 2*n + 1
+			for _, sh := range shapes {
+				for _, D := range []float64{1e-5, 1e-4, 1e-3} {
+					delta := func(u float64) float64 { return D * sh.f(u) }
+					for _, slope := range []float64{0, 0.02, -0.05} {
+						for _, h := range []float64{1, 2, 5, 10, 20, 30, 50} {
+							run := func(sub int) []complex128 {
+								psi := make([]complex128, nb)
+								st.Start(psi)
+								psi[n+1], psi[n-1] = complex(0.3, -0.5), complex(0.1, 0.2)
+								dh := h / float64(sub)
+								for k := 0; k < sub; k++ {
+									ua, ub := float64(k)/float64(sub), float64(k+1)/float64(sub)
+									da, db := delta(ua), delta(ub)
+									d1 := delta(ua+gaussNodes[0]/float64(sub)) - da - gaussNodes[0]*(db-da)
+									d2 := delta(ua+gaussNodes[1]/float64(sub)) - da - gaussNodes[1]*(db-da)
+									st.Shift(psi, da)
+									if sub == 1 {
+										st.Crystal(psi, dh, slope+(db-da)/dh, d1, d2)
+									} else {
+										st.crystalMagnus(psi, dh, slope+(db-da)/dh, d1, d2)
+									}
+									st.Shift(psi, -db)
+								}
+								st.toBeams(psi)
+								return psi
+							}
+							one, conv := run(1), run(2000)
+							err := 0.0
+							for k := range one {
+								err = math.Max(err, cmplxAbs(one[k]-conv[k]))
+							}
+							cyc := st.Beat(slope) * h
+							if sh.quart {
+								worstMid = math.Max(worstMid, err/D)
+								if err > midWeight/2*D {
+									t.Errorf("%d beams, s_g %.3f, quartic δ %g at the midpoint, slope %g, h %g nm (%.2f beat cycles): error %.3g > %g per unit",
+										nb, s1, D, slope, h, cyc, err, midWeight/2.0)
+								}
+								continue
+							}
+							worstK = math.Max(worstK, err/(D*D))
+							if err > rowSecondOrder*D*D {
+								t.Errorf("%d beams, s_g %.3f, %s δ %g at the nodes, slope %g, h %g nm (%.2f beat cycles): error %.3g > rowSecondOrder·D²",
+									nb, s1, sh.name, D, slope, h, cyc, err)
+							}
+						}
+					}
+				}
+			}
+		}
+	}
+	t.Logf("largest error per squared departure %.1f (rowSecondOrder %g); per unit of midpoint content %.2f (midWeight %g)",
+		worstK, float64(rowSecondOrder), worstMid, float64(midWeight))
+}

@@ -248,6 +248,9 @@ func TabulateS(ctx context.Context, smp *Samples, model func(s float64) Model, s
 			// not bounded by them (beatWithin, as Samples.Replay).
 			check[k] = !beatWithin(models[k], edge)
 		}
+		// Slabs recorded with systematic rows serve the edges unchecked
+		// if those are rows too (beatWithin).
+		checkFixed := !(rowsOnly(edge) && rowsOnly(smp.models))
 		fresh.Store(0)
 		var failed error
 		var failOnce sync.Once
@@ -271,7 +274,7 @@ func TabulateS(ctx context.Context, smp *Samples, model func(s float64) Model, s
 				row, st := smp.rows[j], smp.starts[j]
 				for i := 0; i < g.NX; i++ {
 					var ok bool
-					steps, ok = prep.fixedSteps(g.X(i), y, row[st[i]:st[i+1]], smp.gamma0[j*g.NX+i], steps)
+					steps, ok = prep.fixedSteps(g.X(i), y, row[st[i]:st[i+1]], smp.gamma0[j*g.NX+i], steps, checkFixed)
 					if !ok {
 						fresh.Add(1)
 					}
@@ -456,9 +459,10 @@ func clenshaw4(c []float64, n int, x float64, out *[4]float64) {
 // (x, y) from the entrance to the exit surface of c's problem that serve
 // every model of the table's range (see the comment above): the recorded
 // steps, the one the exit surface cuts by partSlab, when each passes the
-// step control with c's fastest beat; otherwise the whole column
-// integrated afresh (ok false).
-func (c *column) fixedSteps(x, y float64, rec []step, gamma0 float64, dst []step) (out []step, ok bool) {
+// step control with c's fastest beat (or unchecked, check false, when
+// they are known to pass it); otherwise the whole column integrated
+// afresh (ok false).
+func (c *column) fixedSteps(x, y float64, rec []step, gamma0 float64, dst []step, check bool) (out []step, ok bool) {
 	c.x, c.y = x, y
 	z, zEnd := c.p.surfaces(x, y)
 	gam := gamma0
@@ -483,7 +487,7 @@ func (c *column) fixedSteps(x, y float64, rec []step, gamma0 float64, dst []step
 				o = step{h: h, rise: rise, d1: float32(d1), d2: float32(d2)}
 			}
 			slope := o.rise / o.h
-			if !accept(indicator(float64(o.d1), float64(o.d2), c.beat(slope)*o.h), c.tol, o.h) {
+			if check && !accept(indicator(float64(o.d1), float64(o.d2), c.beat(slope)*o.h), c.tol, o.h) {
 				return c.afresh(x, y, dst)
 			}
 			dst = append(dst, o)

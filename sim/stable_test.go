@@ -153,7 +153,7 @@ func TestSTable(t *testing.T) {
 		for j := 0; j < g.NY; j++ {
 			for i := 0; i < g.NX; i++ {
 				row, starts := smp.rows[j], smp.starts[j]
-				steps, _ = prep.fixedSteps(g.X(i), g.Y(j), row[starts[i]:starts[i+1]], smp.gamma0[j*g.NX+i], steps)
+				steps, _ = prep.fixedSteps(g.X(i), g.Y(j), row[starts[i]:starts[i+1]], smp.gamma0[j*g.NX+i], steps, true)
 				if !applySteps(st, psi, steps, prep.tol, true) {
 					t.Fatalf("s = %g, column (%d, %d): a slab fails", s, i, j)
 				}

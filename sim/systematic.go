@@ -230,7 +230,7 @@ func (st *rowStepper) Crystal(psi []complex128, h, slope, d1, d2 float64) {
 	if st.crystalBloch(psi, h, slope, d1, d2) {
 		return
 	}
-	st.crystalMagnus(psi, h, slope, d1, d2)
+	st.magnusPieces(psi, h, slope, d1, d2)
 }
 
 // crystalMagnus is the fourth-order commutator-free Magnus step of Crystal

@@ -2,6 +2,7 @@ package tests
 
 import (
 	"context"
+	"encoding/json"
 	"math"
 	"testing"
 
@@ -97,6 +98,70 @@ func TestDefaultToleranceAgainstConverged(t *testing.T) {
 		t.Logf("%s: largest difference from converged %.2e of the incident beam", tc.name, worst)
 		if worst > tc.budget {
 			t.Errorf("%s: a pixel is %.3g from converged, more than %g", tc.name, worst, tc.budget)
+		}
+	}
+}
+
+func TestRowDefaultToleranceAgainstConverged(t *testing.T) {
+	// The 7-beam systematic row at the default tolerance, whose slabs are
+	// limited by the Bloch-wave step's own indicator (sim/column.go: the
+	// departures and the content at each slab's midpoint, not the beat),
+	// against the same render converged: every pixel of every beam within
+	// 1e-4 of the incident beam, the accuracy sim.DefaultTolerance states,
+	// on the six-defect scene (dislocations, a dissociated one, a fault, an
+	// inclusion, a loop, a cavity) and on one Stroh dislocation (the scene
+	// of BenchmarkRender256AnisotropicRow7), at the Bragg position and in
+	// g(3g).
+	six := func(deviation string) *scene.Setup {
+		sc, err := scene.Load("testdata/all_defects.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		edits := []scene.Edit{{Path: "diffraction.model", Value: "systematic-row"}, {Path: "diffraction.beams", Value: 7}}
+		if deviation == "bragg" {
+			edits = append(edits, scene.Edit{Path: "diffraction.s_per_nm", Value: 0.0})
+		} else {
+			edits = append(edits, scene.Edit{Path: "diffraction.weak_beam", Value: json.RawMessage(`{"n": 3}`)})
+		}
+		if err := scene.SetAll(sc, edits...); err != nil {
+			t.Fatal(err)
+		}
+		sc.Image.Pixels = []int{64, 64}
+		st, err := scene.Build(sc, "testdata")
+		if err != nil {
+			t.Fatal(err)
+		}
+		return st
+	}
+	stroh := func(deviation string) *scene.Setup {
+		sc, err := scene.Parse([]byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+		  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], ` + deviation + `, "model": "systematic-row", "beams": 7},
+		  "foil": {"thickness_nm": 150},
+		  "defects": [{"type": "dislocation", "b": "1/2[1 0 1]", "line": [1, 1, 1], "at_nm": [0, 0, 75], "elasticity": "anisotropic"}],
+		  "image": {"width_nm": 200, "height_nm": 200, "pixels": [64, 64]}}`))
+		if err != nil {
+			t.Fatal(err)
+		}
+		st, err := scene.Build(sc, ".")
+		if err != nil {
+			t.Fatal(err)
+		}
+		return st
+	}
+	cases := []struct {
+		name string
+		st   *scene.Setup
+	}{
+		{"six defects, Bragg, 64²", six("bragg")},
+		{"six defects, g(3g), 64²", six("weak")},
+		{"Stroh dislocation, Bragg, 64²", stroh(`"s_per_nm": 0`)},
+		{"Stroh dislocation, g(3g), 64²", stroh(`"weak_beam": {"n": 3}`)},
+	}
+	for _, tc := range cases {
+		worst := worstAgainstConverged(t, tc.st.Problem, 0)
+		t.Logf("%s: largest difference from converged %.2e of the incident beam", tc.name, worst)
+		if worst > 1e-4 {
+			t.Errorf("%s: a pixel is %.3g from converged, more than 1e-4", tc.name, worst)
 		}
 	}
 }
