@@ -33,7 +33,7 @@ import (
 // the nodes do not see. For a column whose steppers all take that step
 // (secondOrderStepper) the indicator is therefore
 //
-//	e = max(D·(floorWeight + rowSecondOrder·D), midWeight·m),
+//	e = max(D·(rowFloorWeight + rowSecondOrder·D), midWeight·m),
 //
 // D = max(|d1|, |d2|) and m the departure at the slab's midpoint from the
 // cubic through the ends and the nodes (one more sample of g·R, taken
@@ -73,6 +73,13 @@ const (
 	// unit departure); the floor bounds the content of higher order that
 	// the two nodes do not see.
 	floorWeight = 0.1
+	// rowFloorWeight is floorWeight for the Bloch-wave step, half of it:
+	// the quartic part of the content the nodes miss is measured at the
+	// midpoint (midWeight), so the floor has only what lies beyond to
+	// cover. On the scenes of tests.TestRowDefaultToleranceAgainstConverged
+	// it takes 12 % fewer slabs than floorWeight, the largest difference
+	// from converged rising from 1.32e-5 to 1.39e-5.
+	rowFloorWeight = 0.05
 	// rowSecondOrder bounds the Bloch-wave step's error per squared
 	// departure, K in K·D² (amplitude per cycle²): measured at most 59 for
 	// 7 beams and 52 for 15, over 1–50 nm slabs, 0.02–4 beat cycles and
@@ -305,7 +312,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 			// factor (rm) the midpoint's content asks of h.
 			quad, quart, rm = floorWeight*dep, dep*cyc2*invBeatScale2, math.Inf(1)
 			if c.mid {
-				quart = rowSecondOrder * dep * dep
+				quad, quart = rowFloorWeight*dep, rowSecondOrder*dep*dep
 			}
 			err := quad + quart
 			if c.mid && err <= c.tol {

@@ -301,11 +301,17 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	// λ' = λ + 2πi r P_jj, the Bloch waves' wave numbers to first order in
 	// r (the perturbation's diagonal, constant in the slab, taken exactly),
 	// and λ'h, e^{λ'h}, e^{−λ'h}.
+	//
+	// The mean absorption μ, common to every wave, is left out of
+	// e^{±λ'h} (the integrals need only their ratios) and applied once at
+	// the end: what is left of the real parts is the anomalous absorption,
+	// small enough for expNear0's polynomial.
+	mh := st.mu * h
 	lh, eps, inv := st.lam[:nb], st.eps[:nb], st.einv[:nb]
 	for j, l := range b.lam {
 		l = (l + b.p[j*nb+j]*complex(r, 0)) * complex(h, 0)
 		lh[j] = l
-		ex := expNear0(real(l))
+		ex := expNear0(real(l) + mh)
 		s, c := math.Sincos(imag(l))
 		eps[j] = complex(ex*c, ex*s)
 		ie := 1 / ex
@@ -423,8 +429,9 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 		}
 	}
 	// psi stays in the Bloch basis (see rowStepper.basis).
+	am := expNear0(-mh)
 	for j := range u[:nb] {
-		psi[j] = u[j] * eps[j]
+		psi[j] = u[j] * eps[j] * complex(am, 0)
 	}
 	st.basis = b
 	return true
