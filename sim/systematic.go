@@ -191,8 +191,7 @@ type rowStepper struct {
 	lastB *rowBloch
 	// basis, when not nil, says that psi holds the amplitudes of the Bloch
 	// waves of basis (u = V⁻¹χ) rather than χ: consecutive Bloch-wave
-	// slabs at the same grid slope (a fifth to a third of them on the
-	// tests' Stroh scenes) skip the V and V⁻¹ between them. Every other
+	// slabs at the same grid slope skip the V and V⁻¹ between them. Every other
 	// method returns psi to χ first (toBeams); Start resets it.
 	basis *rowBloch
 }
