@@ -134,19 +134,7 @@ func TestRowDefaultToleranceAgainstConverged(t *testing.T) {
 		return st
 	}
 	stroh := func(deviation string) *scene.Setup {
-		sc, err := scene.Parse([]byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
-		  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], ` + deviation + `, "model": "systematic-row", "beams": 7},
-		  "foil": {"thickness_nm": 150},
-		  "defects": [{"type": "dislocation", "b": "1/2[1 0 1]", "line": [1, 1, 1], "at_nm": [0, 0, 75], "elasticity": "anisotropic"}],
-		  "image": {"width_nm": 200, "height_nm": 200, "pixels": [64, 64]}}`))
-		if err != nil {
-			t.Fatal(err)
-		}
-		st, err := scene.Build(sc, ".")
-		if err != nil {
-			t.Fatal(err)
-		}
-		return st
+		return oneDislocation(t, "anisotropic", deviation+`, "model": "systematic-row", "beams": 7`, 64)
 	}
 	cases := []struct {
 		name string

@@ -55,18 +55,7 @@ func benchmarkElasticity(b *testing.B, elasticity string) {
 // benchmarkModel renders the scene of benchmarkElasticity with the
 // deviation and model given as diffraction fields.
 func benchmarkModel(b *testing.B, elasticity, diffraction string) {
-	sc, err := scene.Parse([]byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
-	  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], ` + diffraction + `},
-	  "foil": {"thickness_nm": 150},
-	  "defects": [{"type": "dislocation", "b": "1/2[1 0 1]", "line": [1, 1, 1], "at_nm": [0, 0, 75], "elasticity": "` + elasticity + `"}],
-	  "image": {"width_nm": 200, "height_nm": 200, "pixels": [256, 256]}}`))
-	if err != nil {
-		b.Fatal(err)
-	}
-	st, err := scene.Build(sc, ".")
-	if err != nil {
-		b.Fatal(err)
-	}
+	st := oneDislocation(b, elasticity, diffraction, 256)
 	cpu := startCPU()
 	for b.Loop() {
 		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
@@ -75,6 +64,26 @@ func benchmarkModel(b *testing.B, elasticity, diffraction string) {
 	}
 	cpu.report(b)
 	b.ReportMetric(256*256*float64(b.N)/b.Elapsed().Seconds(), "columns/s")
+}
+
+// oneDislocation builds the scene of the elasticity and row benchmarks:
+// one inclined mixed dislocation in a 150 nm copper foil, g = 200, imaged
+// over 200 nm at pixels² columns, with the diffraction fields given.
+func oneDislocation(tb testing.TB, elasticity, diffraction string, pixels int) *scene.Setup {
+	tb.Helper()
+	sc, err := scene.Parse([]byte(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
+	  "diffraction": {"g": [2, 0, 0], "beam": [0, 1, 1], ` + diffraction + `},
+	  "foil": {"thickness_nm": 150},
+	  "defects": [{"type": "dislocation", "b": "1/2[1 0 1]", "line": [1, 1, 1], "at_nm": [0, 0, 75], "elasticity": "` + elasticity + `"}],
+	  "image": {"width_nm": 200, "height_nm": 200, "pixels": [` + strconv.Itoa(pixels) + `, ` + strconv.Itoa(pixels) + `]}}`))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	st, err := scene.Build(sc, ".")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return st
 }
 
 func BenchmarkRender256Isotropic(b *testing.B)   { benchmarkElasticity(b, "isotropic") }
