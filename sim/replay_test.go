@@ -95,7 +95,9 @@ func TestPartSlabExactForCubic(t *testing.T) {
 
 // beatWithin: a two-beam model between the recorded s with the same ξ_g
 // needs no re-check; one outside them, with a shorter ξ_g or of another
-// type does.
+// type does. A systematic row needs none after systematic rows (their
+// slabs passed the Bloch-wave step's indicator, which no model constant
+// enters), and one after anything else.
 func TestBeatWithin(t *testing.T) {
 	rec := []Model{TwoBeam{SPerNm: 0.004, XiGNm: 40}, TwoBeam{SPerNm: -0.006, XiGNm: 40}, TwoBeam{SPerNm: 0.014, XiGNm: 40}}
 	for _, c := range []struct {
@@ -108,6 +110,7 @@ func TestBeatWithin(t *testing.T) {
 		{TwoBeam{SPerNm: 0.015, XiGNm: 40}, false},
 		{TwoBeam{SPerNm: 0.004, XiGNm: 39}, false},
 		{Kinematical{SPerNm: 0.004, XiGNm: 40}, false},
+		{testRow(3, 0.01, 0.1), false},
 	} {
 		if got := beatWithin(c.m, rec); got != c.want {
 			t.Errorf("%+v: beatWithin %v, want %v", c.m, got, c.want)
@@ -125,6 +128,26 @@ func TestBeatWithin(t *testing.T) {
 					t.Errorf("%+v: beat %g at slope %g above the recorded %g", c.m, b, slope, top)
 				}
 			}
+		}
+	}
+}
+
+func TestBeatWithinRows(t *testing.T) {
+	c := testLambdaNm * testGPerNm * testGPerNm / 2
+	rows := []Model{testRow(3, 0, 0.1), testRow(3, 2*c, 0.1)}
+	for _, tc := range []struct {
+		m    Model
+		rec  []Model
+		want bool
+	}{
+		{testRow(3, 0.3, 0.05), rows, true},
+		{testRow(7, -0.1, 0.1), rows, true},
+		{testRow(3, 0, 0.1), append([]Model{TwoBeam{SPerNm: 0, XiGNm: 40}}, rows...), false},
+		{TwoBeam{SPerNm: 0, XiGNm: 40}, rows, false},
+		{testRow(3, 0, 0.1), nil, false},
+	} {
+		if got := beatWithin(tc.m, tc.rec); got != tc.want {
+			t.Errorf("%s after %d models: beatWithin %v, want %v", tc.m.Name(), len(tc.rec), got, tc.want)
 		}
 	}
 }

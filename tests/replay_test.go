@@ -2,9 +2,11 @@ package tests
 
 import (
 	"context"
+	"encoding/json"
 	"math"
 	"testing"
 
+	"faultline/scene"
 	"faultline/sim"
 )
 
@@ -79,4 +81,68 @@ func maxDiff(a, b *sim.Image) float64 {
 		}
 	}
 	return worst
+}
+
+// The systematic row replays too: the six-defect scene as a 7-beam row at
+// the Bragg position, recorded to 125 nm, replayed at other s and
+// thicknesses (among them g(3g)) with no slab re-checked (slabs recorded
+// with rows serve any row, sim/column.go) and as two beams (every slab
+// checked), each within 1e-4 of a fresh render of the same conditions.
+func TestRowReplayAgreesWithRender(t *testing.T) {
+	build := func(model string, beams int, dev string, devValue any, thickness float64) *sim.Problem {
+		sc, err := scene.Load("testdata/all_defects.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		edits := []scene.Edit{{Path: "diffraction.model", Value: model}, {Path: dev, Value: devValue},
+			{Path: "foil.thickness_nm", Value: thickness}}
+		if beams > 0 {
+			edits = append(edits, scene.Edit{Path: "diffraction.beams", Value: beams})
+		}
+		if err := scene.SetAll(sc, edits...); err != nil {
+			t.Fatal(err)
+		}
+		sc.Image.Pixels = []int{48, 48}
+		st, err := scene.Build(sc, "testdata")
+		if err != nil {
+			t.Fatal(err)
+		}
+		return st.Problem
+	}
+	ctx := context.Background()
+	p := build("systematic-row", 7, "diffraction.s_per_nm", 0.0, 100)
+	_, samples, err := sim.Record(ctx, p, sim.RecordOptions{MaxThicknessNm: 125})
+	if err != nil || samples == nil {
+		t.Fatalf("record: %v", err)
+	}
+	for _, c := range []struct {
+		name, model string
+		beams       int
+		dev         string
+		value       any
+		t           float64
+	}{
+		{"7 beams, s = 0.005", "systematic-row", 7, "diffraction.s_per_nm", 0.005, 100},
+		{"7 beams, s = −0.01, t = 70 nm", "systematic-row", 7, "diffraction.s_per_nm", -0.01, 70},
+		{"9 beams, g(3g), t = 125 nm", "systematic-row", 9, "diffraction.weak_beam", json.RawMessage(`{"n": 3}`), 125},
+		{"two beams, s = 0.005", "two-beam", 0, "diffraction.s_per_nm", 0.005, 100},
+	} {
+		q := build(c.model, c.beams, c.dev, c.value, c.t)
+		got, nFresh, err := samples.Replay(ctx, q.Model, c.t, sim.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, err := sim.Render(ctx, q, sim.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		d := maxDiff(got, want)
+		t.Logf("%s: replay within %.2e of a fresh render, %d columns afresh", c.name, d, nFresh)
+		if d > 1e-4 {
+			t.Errorf("%s: replay differs from a fresh render by %.3g", c.name, d)
+		}
+		if c.model == "systematic-row" && nFresh != 0 {
+			t.Errorf("%s: %d columns integrated afresh, want none", c.name, nFresh)
+		}
+	}
 }
