@@ -112,26 +112,12 @@ func TestRowDefaultToleranceAgainstConverged(t *testing.T) {
 	// inclusion, a loop, a cavity) and on one Stroh dislocation (the scene
 	// of BenchmarkRender256AnisotropicRow7), at the Bragg position and in
 	// g(3g).
+	row7 := []scene.Edit{{Path: "diffraction.model", Value: "systematic-row"}, {Path: "diffraction.beams", Value: 7}}
 	six := func(deviation string) *scene.Setup {
-		sc, err := scene.Load("testdata/all_defects.json")
-		if err != nil {
-			t.Fatal(err)
-		}
-		edits := []scene.Edit{{Path: "diffraction.model", Value: "systematic-row"}, {Path: "diffraction.beams", Value: 7}}
 		if deviation == "bragg" {
-			edits = append(edits, scene.Edit{Path: "diffraction.s_per_nm", Value: 0.0})
-		} else {
-			edits = append(edits, scene.Edit{Path: "diffraction.weak_beam", Value: json.RawMessage(`{"n": 3}`)})
+			return sixDefects(t, 64, append(row7, scene.Edit{Path: "diffraction.s_per_nm", Value: 0.0})...)
 		}
-		if err := scene.SetAll(sc, edits...); err != nil {
-			t.Fatal(err)
-		}
-		sc.Image.Pixels = []int{64, 64}
-		st, err := scene.Build(sc, "testdata")
-		if err != nil {
-			t.Fatal(err)
-		}
-		return st
+		return sixDefects(t, 64, append(row7, scene.Edit{Path: "diffraction.weak_beam", Value: json.RawMessage(`{"n": 3}`)})...)
 	}
 	stroh := func(deviation string) *scene.Setup {
 		return oneDislocation(t, "anisotropic", deviation+`, "model": "systematic-row", "beams": 7`, 64)
@@ -152,4 +138,23 @@ func TestRowDefaultToleranceAgainstConverged(t *testing.T) {
 			t.Errorf("%s: a pixel is %.3g from converged, more than 1e-4", tc.name, worst)
 		}
 	}
+}
+
+// sixDefects builds the six-defect scene (testdata/all_defects.json) at
+// pixels² columns with the edits applied.
+func sixDefects(tb testing.TB, pixels int, edits ...scene.Edit) *scene.Setup {
+	tb.Helper()
+	sc, err := scene.Load("testdata/all_defects.json")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	if err := scene.SetAll(sc, edits...); err != nil {
+		tb.Fatal(err)
+	}
+	sc.Image.Pixels = []int{pixels, pixels}
+	st, err := scene.Build(sc, "testdata")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return st
 }

@@ -90,24 +90,12 @@ func maxDiff(a, b *sim.Image) float64 {
 // checked), each within 1e-4 of a fresh render of the same conditions.
 func TestRowReplayAgreesWithRender(t *testing.T) {
 	build := func(model string, beams int, dev string, devValue any, thickness float64) *sim.Problem {
-		sc, err := scene.Load("testdata/all_defects.json")
-		if err != nil {
-			t.Fatal(err)
-		}
 		edits := []scene.Edit{{Path: "diffraction.model", Value: model}, {Path: dev, Value: devValue},
 			{Path: "foil.thickness_nm", Value: thickness}}
 		if beams > 0 {
 			edits = append(edits, scene.Edit{Path: "diffraction.beams", Value: beams})
 		}
-		if err := scene.SetAll(sc, edits...); err != nil {
-			t.Fatal(err)
-		}
-		sc.Image.Pixels = []int{48, 48}
-		st, err := scene.Build(sc, "testdata")
-		if err != nil {
-			t.Fatal(err)
-		}
-		return st.Problem
+		return sixDefects(t, 48, edits...).Problem
 	}
 	ctx := context.Background()
 	p := build("systematic-row", 7, "diffraction.s_per_nm", 0.0, 100)
