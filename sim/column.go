@@ -86,14 +86,14 @@ const (
 	// from converged rising from 1.32e-5 to 1.39e-5.
 	rowFloorWeight = 0.05
 	// rowSecondOrder bounds the Bloch-wave step's error per squared
-	// departure, K in K·D² (amplitude per cycle²): measured at most 59 for
-	// 7 beams and 52 for 15, over 1–50 nm slabs, 0.02–4 beat cycles and
-	// departures of 1e-5 to 1e-3 cycles (TestRowSlabErrorModel); 80 with a
-	// margin.
+	// departure, K in K·D² (amplitude per cycle²): measured at most 55
+	// with 7 and 15 beams, at the Bragg position and g(3g), over 1–50 nm
+	// slabs, 0.02–4 beat cycles and departures of 1e-5 to 1e-3 cycles
+	// (TestRowSlabErrorModel); 80 with a margin.
 	rowSecondOrder = 80
 	// midWeight weighs the quartic content m seen at a slab's midpoint:
-	// the Bloch-wave step's amplitude error per unit of it is at most 4.7
-	// (measured over the same range); twice that, for the quintic content
+	// the Bloch-wave step's amplitude error per unit of it is at most 4.5
+	// (measured over the same range); about twice that, for the quintic content
 	// the midpoint does not see either.
 	midWeight = 10
 )
@@ -369,11 +369,18 @@ func (c *column) segment(a, b, ga float64) float64 {
 	return ga
 }
 
-// cubicMid is the departure at a slab's midpoint of the cubic through
-// δ = 0 at its ends and d1, d2 at its Gauss nodes (see partSlab).
+// cubic returns α and β of a slab's departure u(1−u)(α + βu), u the
+// fraction of its length: the cubic through δ = 0 at its ends and d1, d2
+// at its Gauss nodes u = 1/2 ∓ √3/6, where u(1−u) = 1/6.
+func cubic(d1, d2 float64) (alpha, beta float64) {
+	beta = 6 * (d2 - d1) / (gaussNodes[1] - gaussNodes[0])
+	return 6*d1 - beta*gaussNodes[0], beta
+}
+
+// cubicMid is that cubic's departure at the slab's midpoint.
 func cubicMid(d1, d2 float64) float64 {
-	b := 6 * (d2 - d1) / (gaussNodes[1] - gaussNodes[0])
-	return (6*d1 - b*gaussNodes[0] + b/2) / 4
+	a, b := cubic(d1, d2)
+	return (a + b/2) / 4
 }
 
 // indicator is the error indicator of a slab of length h with departures
@@ -421,11 +428,10 @@ func predict(aa, bb, tol float64) float64 {
 	if aa == 0 {
 		return math.Inf(1)
 	}
-	t := tol
 	if bb < 1e-6*aa {
-		return math.Sqrt(t / aa)
+		return math.Sqrt(tol / aa)
 	}
-	r2 := 2 * t / (aa + math.Sqrt(aa*aa+4*bb*t))
+	r2 := 2 * tol / (aa + math.Sqrt(aa*aa+4*bb*tol))
 	return math.Sqrt(r2)
 }
 

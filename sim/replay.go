@@ -337,8 +337,7 @@ func partSlab(h, rise, d1, d2, f float64) (float64, float64, float64, float64) {
 // slope whose departure is the cubic u(1−u)(α + βu) through its samples
 // (zero at its ends, d1 and d2 at the nodes, where u(1−u) = 1/6).
 func cubicPart(h, slope, d1, d2, u0, u1 float64) (float64, float64, float64) {
-	beta := 6 * (d2 - d1) / (gaussNodes[1] - gaussNodes[0])
-	alpha := 6*d1 - beta*gaussNodes[0]
+	alpha, beta := cubic(d1, d2)
 	dep := func(u float64) float64 { return u * (1 - u) * (alpha + beta*u) }
 	c0, c1 := dep(u0), dep(u1)
 	du := u1 - u0

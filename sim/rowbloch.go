@@ -291,8 +291,7 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	// δ(t) = t(1−t)(a + b t), t = z/h, through the Gauss-node departures
 	// (t(1−t) = 1/6 at both nodes); F(t) = h f = r h + dδ/dt is quadratic:
 	// F(t) = F0 + F1 t + F2 t²/2.
-	bb := 6 * math.Sqrt(3) * (d2 - d1)
-	aa := 6*d1 - bb*gaussNodes[0]
+	aa, bb := cubic(d1, d2)
 	rh := r * h
 	f0 := rh + aa        // F(0)
 	f1 := 2 * (bb - aa)  // F'(0)
