@@ -50,7 +50,7 @@
 // beams the row agrees with a converged RK4 solution to better than 1e-4
 // (TestRowAccuracyAgainstConverged; measured 4.6e-6) and whole renders
 // with converged renders (TestRowWeakBeamDefaultToleranceAgainstConverged,
-// tests.TestRowDefaultToleranceAgainstConverged; at most 1.4e-5).
+// tests.TestRowDefaultToleranceAgainstConverged; at most 2.7e-5).
 //
 // # Method
 //

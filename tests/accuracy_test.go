@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/json"
 	"math"
+	"path/filepath"
 	"testing"
 
 	"faultline/scene"
@@ -111,14 +112,12 @@ func TestRowDefaultToleranceAgainstConverged(t *testing.T) {
 	// on the six-defect scene (dislocations, a dissociated one, a fault, an
 	// inclusion, a loop, a cavity) and on one Stroh dislocation (the scene
 	// of BenchmarkRender256AnisotropicRow7), at the Bragg position and in
-	// g(3g).
+	// g(3g), and on the damage-loop example at the Bragg position (the
+	// largest difference found over the example scenes, each beam count
+	// from 5 to 15 and conditions from g(−g) to g(4g): 2.7e-5).
 	row7 := []scene.Edit{{Path: "diffraction.model", Value: "systematic-row"}, {Path: "diffraction.beams", Value: 7}}
-	six := func(deviation string) *scene.Setup {
-		if deviation == "bragg" {
-			return sixDefects(t, 64, append(row7, scene.Edit{Path: "diffraction.s_per_nm", Value: 0.0})...)
-		}
-		return sixDefects(t, 64, append(row7, scene.Edit{Path: "diffraction.weak_beam", Value: json.RawMessage(`{"n": 3}`)})...)
-	}
+	bragg := append(row7[:2:2], scene.Edit{Path: "diffraction.s_per_nm", Value: 0.0})
+	weak := append(row7[:2:2], scene.Edit{Path: "diffraction.weak_beam", Value: json.RawMessage(`{"n": 3}`)})
 	stroh := func(deviation string) *scene.Setup {
 		return oneDislocation(t, "anisotropic", deviation+`, "model": "systematic-row", "beams": 7`, 64)
 	}
@@ -126,8 +125,9 @@ func TestRowDefaultToleranceAgainstConverged(t *testing.T) {
 		name string
 		st   *scene.Setup
 	}{
-		{"six defects, Bragg, 64²", six("bragg")},
-		{"six defects, g(3g), 64²", six("weak")},
+		{"six defects, Bragg, 64²", editedScene(t, "testdata/all_defects.json", 64, bragg...)},
+		{"six defects, g(3g), 64²", editedScene(t, "testdata/all_defects.json", 64, weak...)},
+		{"damage loops, Bragg, 64²", editedScene(t, "../assets/examples/damage_loops.json", 64, bragg...)},
 		{"Stroh dislocation, Bragg, 64²", stroh(`"s_per_nm": 0`)},
 		{"Stroh dislocation, g(3g), 64²", stroh(`"weak_beam": {"n": 3}`)},
 	}
@@ -140,11 +140,11 @@ func TestRowDefaultToleranceAgainstConverged(t *testing.T) {
 	}
 }
 
-// sixDefects builds the six-defect scene (testdata/all_defects.json) at
-// pixels² columns with the edits applied.
-func sixDefects(tb testing.TB, pixels int, edits ...scene.Edit) *scene.Setup {
+// editedScene builds the scene file at path at pixels² columns with the
+// edits applied.
+func editedScene(tb testing.TB, path string, pixels int, edits ...scene.Edit) *scene.Setup {
 	tb.Helper()
-	sc, err := scene.Load("testdata/all_defects.json")
+	sc, err := scene.Load(path)
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -152,7 +152,7 @@ func sixDefects(tb testing.TB, pixels int, edits ...scene.Edit) *scene.Setup {
 		tb.Fatal(err)
 	}
 	sc.Image.Pixels = []int{pixels, pixels}
-	st, err := scene.Build(sc, "testdata")
+	st, err := scene.Build(sc, filepath.Dir(path))
 	if err != nil {
 		tb.Fatal(err)
 	}

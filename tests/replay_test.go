@@ -95,7 +95,7 @@ func TestRowReplayAgreesWithRender(t *testing.T) {
 		if beams > 0 {
 			edits = append(edits, scene.Edit{Path: "diffraction.beams", Value: beams})
 		}
-		return sixDefects(t, 48, edits...).Problem
+		return editedScene(t, "testdata/all_defects.json", 48, edits...).Problem
 	}
 	ctx := context.Background()
 	p := build("systematic-row", 7, "diffraction.s_per_nm", 0.0, 100)
