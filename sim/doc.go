@@ -48,7 +48,7 @@
 // commutator-free Magnus pair (Blanes & Moan 2006) with Taylor-series
 // exponentials, in pieces of at most a tenth of a beat cycle. With 7
 // beams the row agrees with a converged RK4 solution to better than 1e-4
-// (TestRowAccuracyAgainstConverged; measured 6.3e-6) and whole renders
+// (TestRowAccuracyAgainstConverged; measured 7.3e-6) and whole renders
 // with converged renders (TestRowWeakBeamDefaultToleranceAgainstConverged,
 // tests.TestRowDefaultToleranceAgainstConverged; at most 2.7e-5).
 //

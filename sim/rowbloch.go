@@ -15,10 +15,12 @@ import (
 // perfect-crystal matrix at the chord slope β (SystematicRow's equations
 // with s_n → s_n + nβ) and N = diag(n); E = I at the slab's ends, so y = χ
 // there. The slab is thus a perfect crystal whose local slope β + δ'(z)
-// wanders about the chord. The chord slope is rounded to a grid,
-// β = β_q + r with |r| ≤ blochSlopeStep/2, and the perfect-crystal matrix
-// A(β_q) = V Λ V⁻¹ (its Bloch waves; Hirsch et al. 1965, ch. 12) is kept
-// for each grid slope met. In the Bloch basis u = V⁻¹y,
+// wanders about the chord. A(β) depends on s and β through
+// σ = s_1 + β alone (rowShape), which is rounded to a grid,
+// σ = σ_q + r with |r| ≤ blochSlopeStep/2, and the perfect-crystal matrix
+// there, A = V Λ V⁻¹ (its Bloch waves; Hirsch et al. 1965, ch. 12), is kept
+// for each grid point met, for every s of the row. In the Bloch basis
+// u = V⁻¹y,
 //
 //	u' = (Λ + 2πi f(z) P) u,   P = V⁻¹ N V,   f(z) = r + δ'(z),
 //
@@ -52,13 +54,14 @@ import (
 // second order in the departure: TestRowSlabErrorModel measures it.
 
 const (
-	// blochSlopeStep is the grid of chord slopes (cycles per nm) at which
+	// blochSlopeStep is the grid of σ = s_1 + β (cycles per nm) at which
 	// Bloch waves are kept. The remainder r is taken to first order (and
 	// the secular part of the second); what is left grows as the step
 	// squared: measured on the scene of BenchmarkRowRender (16² columns,
 	// at the Bragg position) at the default tolerance, 2.2e-7 of the
 	// incident intensity at 1e-4 (1.5e-5 at 1e-3), well below what the
-	// step control leaves.
+	// step control leaves; per slab at most 1.5e-6 whatever its length
+	// and departure (TestRowSlabErrorModel).
 	blochSlopeStep = 1e-4
 	// blochAnchorEvery is the spacing, in grid slopes, of the anchors
 	// decomposed from scratch (see bloch): 256 steps, 0.0256 cycles/nm.
@@ -163,10 +166,11 @@ func (st *rowStepper) bloch(k int64) *rowBloch {
 	return b
 }
 
-// rowStore keeps the Bloch waves of one systematic row by grid slope,
-// shared by the steppers of all workers and by later renders of the same
-// row (a decomposition depends on the row's constants and the grid slope
-// alone). Each stepper also keeps the ones it has used, without the lock.
+// rowStore keeps the Bloch waves of one systematic row by grid point of
+// σ = s_1 + β, shared by the steppers of all workers and by later renders
+// of the same row at any s (a decomposition depends on the row's shape,
+// couplings and absorption and on σ alone; rowShape). Each stepper also
+// keeps the ones it has used, without the lock.
 type rowStore struct {
 	mu    sync.Mutex
 	m     map[int64]*rowBloch
@@ -186,10 +190,29 @@ var rowStores struct {
 	store []*rowStore
 }
 
-// storeFor returns the store of the row m, making it if needed.
-func storeFor(m SystematicRow) *rowStore {
+// rowShape splits the excitation errors s_n of a row of 2n+1 beams into
+// s_1 and the shape c_n = s_n − n s_1, rounded to 2⁻⁴⁰ /nm. The
+// perfect-crystal matrix at chord slope β has s_n + nβ = c_n + n(s_1 + β)
+// on its diagonal, so its Bloch waves depend on c and on σ = s_1 + β
+// alone: rows that differ only in s (their c_n = n(1−n)λg²/2 the same)
+// share them, and blochSlab keeps them on a grid of σ. The rounding, at
+// most 5e-13 /nm, makes the decompositions a function of the store's key
+// alone, whichever model made the store; it is left out of the step (a
+// phase below 1e-9 over a micrometre).
+func rowShape(s []float64, n int) (s1 float64, c []float64) {
+	s1 = s[n+1]
+	c = make([]float64, len(s))
+	for k, v := range s {
+		c[k] = math.Round((v-float64(k-n)*s1)*(1<<40)) / (1 << 40)
+	}
+	return s1, c
+}
+
+// storeFor returns the store of the row m with shape c (rowShape),
+// making it if needed.
+func storeFor(m SystematicRow, c []float64) *rowStore {
 	var key strings.Builder
-	for _, v := range m.SPerNm {
+	for _, v := range c {
 		fmt.Fprintf(&key, "%x,", math.Float64bits(v))
 	}
 	for _, v := range m.LambdaU {
@@ -237,11 +260,12 @@ func (s *rowStore) put(k int64, b *rowBloch) {
 	s.mu.Unlock()
 }
 
-// eigenBloch decomposes the perfect-crystal matrix at slope beta with
-// gonum's eigensolver (newRowEigen); nil if it cannot be trusted.
-func (st *rowStepper) eigenBloch(beta float64) *rowBloch {
+// eigenBloch decomposes the perfect-crystal matrix at σ = s_1 + β = sigma
+// (the diagonal c_n + nσ, rowShape) with gonum's eigensolver
+// (newRowEigen); nil if it cannot be trusted.
+func (st *rowStepper) eigenBloch(sigma float64) *rowBloch {
 	nb := st.nb
-	st.fill(1, beta, nil)
+	st.fillFrom(st.c, 1, sigma, nil)
 	e := newRowEigen(st.f, nb, 0)
 	if e == nil {
 		return nil
@@ -272,7 +296,9 @@ func (st *rowStepper) crystalBloch(psi []complex128, h, slope, d1, d2 float64) b
 // two halves, each with the chord and the Gauss-node departures of the
 // same cubic δ: the halves see exactly the g·R the whole slab models.
 func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halvings int) bool {
-	kq := math.Round(slope / blochSlopeStep)
+	// The grid is over σ = s_1 + slope (rowShape).
+	sigma := st.s1 + slope
+	kq := math.Round(sigma / blochSlopeStep)
 	if math.Abs(kq) > 1<<40 || h <= 0 {
 		return false
 	}
@@ -286,7 +312,7 @@ func (st *rowStepper) blochSlab(psi []complex128, h, slope, d1, d2 float64, halv
 	if b == nil {
 		return false
 	}
-	r := slope - kq*blochSlopeStep
+	r := sigma - kq*blochSlopeStep
 	nb := st.nb
 	// δ(t) = t(1−t)(a + b t), t = z/h, through the Gauss-node departures
 	// (t(1−t) = 1/6 at both nodes); F(t) = h f = r h + dδ/dt is quadratic:

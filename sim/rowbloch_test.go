@@ -59,7 +59,9 @@ func TestRowBlochSlab(t *testing.T) {
 	// into one of 1/|λ_k − λ_j|), so at least 12 is required. And at the
 	// same slab the Bloch-wave step must be at least 5 times more accurate
 	// than the Magnus–Taylor step (measured: 18–80 times). Errors below
-	// 1e-8 (the rounding of the chord slope to its grid) are not compared.
+	// 1e-7 are not compared: the remainder of the chord slope off the
+	// step's grid of σ = s_1 + β, independent of the departure, reaches
+	// 1e-7 at such slabs (TestRowSlabErrorModel).
 	gamma := func(z float64) float64 { return 0.3 * math.Atan((z-40)/6) }
 	c := testLambdaNm * testGPerNm * testGPerNm / 2
 	for _, s1 := range []float64{0, 2 * c} {
@@ -71,10 +73,10 @@ func TestRowBlochSlab(t *testing.T) {
 				em, _ := slabDiff(m, gamma, z, h, true)
 				t.Logf("s_g %.3f z %g h %g: Bloch-wave slab %.2e (taken: %v), Magnus–Taylor %.2e; error ratio on halving %.1f",
 					s1, z, h, e, bloch, em, prev/e)
-				if bloch && e > 1e-8 && e > em/5 {
+				if bloch && e > 1e-7 && e > em/5 {
 					t.Errorf("s_g %g z %g h %g: Bloch-wave slab error %.2e, Magnus–Taylor %.2e", s1, z, h, e, em)
 				}
-				if h <= 1 && e > 1e-8 && prev/e < 12 {
+				if h <= 1 && e > 1e-7 && prev/e < 12 {
 					t.Errorf("s_g %g z %g h %g: error %.2e fell by only %.1f on halving the slab", s1, z, h, e, prev/e)
 				}
 				prev = e
@@ -87,7 +89,8 @@ func TestRowBlochContinuation(t *testing.T) {
 	// Bloch waves continued from an anchor slope by Newton's method
 	// (rowcontinue.go) reproduce the perfect-crystal matrix, V Λ V⁻¹ = A(β)
 	// to 1e-12 of ‖A‖, and have the eigenvalues that gonum's eigensolver
-	// finds at that slope directly (each within 1e-12 of ‖A‖). Where the
+	// finds at that slope directly (each within 1e-12 of ‖A‖); slopes
+	// about each s_g, on the grid of σ = s_1 + β (rowShape). Where the
 	// continuation gives up, bloch decomposes from scratch; it must succeed
 	// for most slopes (the cases here: 44 of 45).
 	fails, cases := 0, 0
@@ -97,7 +100,9 @@ func TestRowBlochContinuation(t *testing.T) {
 			m := testRow(n, s1, 0.1)
 			st := m.NewStepper().(*rowStepper)
 			nb := st.nb
-			for _, k := range []int64{3, -57, 128, 300, -1001} {
+			k0 := int64(math.Round(st.s1 / blochSlopeStep))
+			for _, dk := range []int64{3, -57, 128, 300, -1001} {
+				k := k0 + dk
 				a := blochAnchorEvery * int64(math.Round(float64(k)/blochAnchorEvery))
 				anchor := st.eigenBloch(float64(a) * blochSlopeStep)
 				b := st.continueBloch(anchor, float64(k-a)*blochSlopeStep)
@@ -107,7 +112,7 @@ func TestRowBlochContinuation(t *testing.T) {
 					fails++
 					continue
 				}
-				st.fill(1, float64(k)*blochSlopeStep, nil)
+				st.fillFrom(st.c, 1, float64(k)*blochSlopeStep, nil)
 				scale := norm1(st.f, nb)
 				worst := 0.0
 				for i := 0; i < nb; i++ {
@@ -180,6 +185,12 @@ func TestRowSlabErrorModel(t *testing.T) {
 	//     step's is 12 c² D);
 	//   - δ quartic with zero at the nodes (what they miss): the error is
 	//     at most midWeight/2 per unit of δ at the midpoint.
+	// These with the chord slopes on the step's grid of σ = s_1 + β
+	// (rowShape), so that they measure the departure's part alone. The
+	// grid's own part, a remainder r of σ up to half the grid step taken
+	// to first order, is measured apart with a departure of 1e-9: at most
+	// 2e-6 for slabs of 1–100 nm whatever the departure (measured 1.5e-6),
+	// a twenty-fifth of DefaultTolerance.
 	c := testLambdaNm * testGPerNm * testGPerNm / 2
 	shapes := []struct {
 		name  string
@@ -192,34 +203,55 @@ func TestRowSlabErrorModel(t *testing.T) {
 		// Zero at the ends and at the nodes, where u(1−u) = 1/6.
 		{"quartic", true, func(u float64) float64 { x := u * (1 - u); return x * (x - 1.0/6) / (0.25 * (0.25 - 1.0/6)) }},
 	}
-	worstK, worstMid := 0.0, 0.0
+	worstK, worstMid, worstGrid := 0.0, 0.0, 0.0
 	for _, n := range []int{3, 7} {
 		for _, s1 := range []float64{0, 2 * c} {
 			m := testRow(n, s1, 0.1)
 			st := m.NewStepper().(*rowStepper)
 			nb := 2*n + 1
+			// slabErr is the amplitude error of one slab of length h at
+			// chord slope slope with departure delta.
+			slabErr := func(h, slope float64, delta func(float64) float64) float64 {
+				run := func(sub int) []complex128 {
+					psi := make([]complex128, nb)
+					st.Start(psi)
+					psi[n+1], psi[n-1] = complex(0.3, -0.5), complex(0.1, 0.2)
+					crystal := st.crystalMagnus
+					if sub == 1 {
+						crystal = st.Crystal
+					}
+					subSlabs(st, psi, h, slope, sub, delta, crystal)
+					st.toBeams(psi)
+					return psi
+				}
+				one, conv := run(1), run(400)
+				err := 0.0
+				for k := range one {
+					err = math.Max(err, cmplxAbs(one[k]-conv[k]))
+				}
+				return err
+			}
+			// A slope near β whose σ lies on the grid, or r grid steps off it.
+			onGrid := func(beta, r float64) float64 {
+				return (math.Round((s1+beta)/blochSlopeStep)+r)*blochSlopeStep - s1
+			}
+			for _, beta := range []float64{0, 0.02, -0.05} {
+				slope := onGrid(beta, 0.5)
+				for _, h := range []float64{1, 5, 20, 50, 100} {
+					err := slabErr(h, slope, func(u float64) float64 { return 6e-9 * u * (1 - u) })
+					worstGrid = math.Max(worstGrid, err)
+					if err > 2e-6 {
+						t.Errorf("%d beams, s_g %.3f, slope %g half a grid step off, h %g nm: error %.3g > 2e-6", nb, s1, slope, h, err)
+					}
+				}
+			}
 			for _, sh := range shapes {
 				for _, D := range []float64{1e-5, 1e-4, 1e-3} {
 					delta := func(u float64) float64 { return D * sh.f(u) }
-					for _, slope := range []float64{0, 0.02, -0.05} {
+					for _, beta := range []float64{0, 0.02, -0.05} {
+						slope := onGrid(beta, 0)
 						for _, h := range []float64{1, 2, 5, 10, 20, 30, 50} {
-							run := func(sub int) []complex128 {
-								psi := make([]complex128, nb)
-								st.Start(psi)
-								psi[n+1], psi[n-1] = complex(0.3, -0.5), complex(0.1, 0.2)
-								crystal := st.crystalMagnus
-								if sub == 1 {
-									crystal = st.Crystal
-								}
-								subSlabs(st, psi, h, slope, sub, delta, crystal)
-								st.toBeams(psi)
-								return psi
-							}
-							one, conv := run(1), run(400)
-							err := 0.0
-							for k := range one {
-								err = math.Max(err, cmplxAbs(one[k]-conv[k]))
-							}
+							err := slabErr(h, slope, delta)
 							cyc := st.Beat(slope) * h
 							if sh.quart {
 								worstMid = math.Max(worstMid, err/D)
@@ -240,6 +272,6 @@ func TestRowSlabErrorModel(t *testing.T) {
 			}
 		}
 	}
-	t.Logf("largest error per squared departure %.1f (rowSecondOrder %g); per unit of midpoint content %.2f (midWeight %g)",
-		worstK, float64(rowSecondOrder), worstMid, float64(midWeight))
+	t.Logf("largest error per squared departure %.1f (rowSecondOrder %g); per unit of midpoint content %.2f (midWeight %g); from the grid %.2g",
+		worstK, float64(rowSecondOrder), worstMid, float64(midWeight), worstGrid)
 }

@@ -131,21 +131,22 @@ func (m SystematicRow) NewStepper() Stepper {
 	n := m.order()
 	nb := 2*n + 1
 	st := &rowStepper{
-		nb:    nb,
-		half:  n,
-		s:     append([]float64(nil), m.SPerNm...),
-		mu:    math.Pi * inverse(m.Xi0AbsNm),
-		q:     make([]complex128, 4*n+1),
-		f:     make([]complex128, nb*nb),
-		w:     make([]complex128, 3*nb),
-		ph:    make([]complex128, 2*(4*n+1)),
-		mom:   make([]float64, blochSeriesTerms),
-		lam:   make([]complex128, nb),
-		eps:   make([]complex128, nb),
-		einv:  make([]complex128, nb),
-		om:    make([]complex128, nb*nb),
-		store: storeFor(m),
+		nb:   nb,
+		half: n,
+		s:    append([]float64(nil), m.SPerNm...),
+		mu:   math.Pi * inverse(m.Xi0AbsNm),
+		q:    make([]complex128, 4*n+1),
+		f:    make([]complex128, nb*nb),
+		w:    make([]complex128, 3*nb),
+		ph:   make([]complex128, 2*(4*n+1)),
+		mom:  make([]float64, blochSeriesTerms),
+		lam:  make([]complex128, nb),
+		eps:  make([]complex128, nb),
+		einv: make([]complex128, nb),
+		om:   make([]complex128, nb*nb),
 	}
+	st.s1, st.c = rowShape(st.s, n)
+	st.store = storeFor(m, st.c)
 	for h := -2 * n; h <= 2*n; h++ {
 		if h == 0 {
 			continue
@@ -169,6 +170,11 @@ func (m SystematicRow) NewStepper() Stepper {
 type rowStepper struct {
 	nb, half int
 	s        []float64
+	// s1 is s_1, the excitation error of g, and c the row's shape
+	// s_n − n s_1 (see rowShape): the Bloch waves depend on them through
+	// c_n + n(s_1 + β) alone.
+	s1       float64
+	c        []float64
 	mu       float64
 	q        []complex128 // q_h at h+2N
 	maxInvXi float64
@@ -259,6 +265,11 @@ func (st *rowStepper) crystalMagnus(psi []complex128, h, slope, d1, d2 float64) 
 // fill sets st.f = c·M with the coupling of order m − n multiplied by
 // wt(m − n).
 func (st *rowStepper) fill(c, slope float64, wt func(j int) complex128) {
+	st.fillFrom(st.s, c, slope, wt)
+}
+
+// fillFrom is fill with the excitation errors s_n taken from s.
+func (st *rowStepper) fillFrom(s []float64, c, slope float64, wt func(j int) complex128) {
 	nb, n2 := st.nb, 2*st.half
 	cc := complex(c, 0)
 	for r := 0; r < nb; r++ {
@@ -266,7 +277,7 @@ func (st *rowStepper) fill(c, slope float64, wt func(j int) complex128) {
 		for k := 0; k < nb; k++ {
 			if k == r {
 				nr := float64(r - st.half)
-				row[k] = cc * complex(-st.mu, 2*math.Pi*(st.s[r]+nr*slope))
+				row[k] = cc * complex(-st.mu, 2*math.Pi*(s[r]+nr*slope))
 				continue
 			}
 			// M_rk couples beam k into beam r with q_{r−k} and the phase
