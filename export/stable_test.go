@@ -76,12 +76,7 @@ func TestSTableGlue(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	worst := 0.0
-	for k := range want.Intensity {
-		for n := range want.Intensity[k] {
-			worst = math.Max(worst, math.Abs(want.Intensity[k][n]-got.Intensity[k][n]))
-		}
-	}
+	worst := sim.MaxDifference(want, got)
 	t.Logf("blurred image from the table within %.2g of a fresh blurred render", worst)
 	if worst > 1e-4 {
 		t.Errorf("blurred image from the table differs from a fresh render by %.3g", worst)

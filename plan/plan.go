@@ -355,11 +355,7 @@ func (p *Plan) visibility(ctx context.Context, st *scene.Setup, tr, sr Range, mo
 			return err
 		}
 		p.Reuse.ReplayPointSeconds = time.Since(t0).Seconds()
-		for k := range fim.Intensity {
-			for i := range fim.Intensity[k] {
-				p.Reuse.MaxReplayDifference = math.Max(p.Reuse.MaxReplayDifference, math.Abs(fim.Intensity[k][i]-rim.Intensity[k][i]))
-			}
-		}
+		p.Reuse.MaxReplayDifference = sim.MaxDifference(fim, rim)
 	}
 	p.Visibility = v
 	return nil

@@ -71,5 +71,20 @@ func (im *Image) BF() []float64 { return im.Beam(0) }
 // DF returns the dark-field image: the intensity of the diffracted beam g.
 func (im *Image) DF() []float64 { return im.Beam(1) }
 
+// MaxDifference returns the largest difference between the intensities of
+// a and b, over every beam plane and pixel: images of the same grid and
+// beams (the difference of a replay, a table or a looser tolerance from a
+// fresh render).
+func MaxDifference(a, b *Image) float64 {
+	worst := 0.0
+	for k := range a.Intensity {
+		bk := b.Intensity[k]
+		for n, v := range a.Intensity[k] {
+			worst = math.Max(worst, math.Abs(v-bk[n]))
+		}
+	}
+	return worst
+}
+
 // At returns the intensity of beam plane k at pixel (i, j).
 func (im *Image) At(k, i, j int) float64 { return im.Intensity[k][j*im.Grid.NX+i] }

@@ -121,13 +121,7 @@ func TestSTable(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		worst := 0.0
-		for k := range im.Intensity {
-			for n := range im.Intensity[k] {
-				worst = math.Max(worst, math.Abs(im.Intensity[k][n]-want.Intensity[k][n]))
-			}
-		}
-		if worst > 1e-5 {
+		if worst := MaxDifference(im, want); worst > 1e-5 {
 			t.Errorf("s = %g: table differs from a replay by %.3g", s, worst)
 		}
 	}

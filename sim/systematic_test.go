@@ -622,20 +622,11 @@ func TestRowWeakBeamDefaultToleranceAgainstConverged(t *testing.T) {
 		}
 		return im
 	}
-	worst := func(a, b *Image) float64 {
-		w := 0.0
-		for k := range a.Intensity {
-			for i := range a.Intensity[k] {
-				w = math.Max(w, math.Abs(a.Intensity[k][i]-b.Intensity[k][i]))
-			}
-		}
-		return w
-	}
 	got, ref, finer := render(0), render(DefaultTolerance/100), render(DefaultTolerance/200)
-	if c := worst(ref, finer); c > 1e-6 {
+	if c := MaxDifference(ref, finer); c > 1e-6 {
 		t.Fatalf("reference not converged: halving its tolerance moves an intensity by %.2g", c)
 	}
-	w := worst(got, ref)
+	w := MaxDifference(got, ref)
 	t.Logf("7 beams, g(3g), 40² pixels: largest difference from converged %.2e", w)
 	if w > 1e-4 {
 		t.Errorf("a pixel is %.3g from converged, more than 1e-4", w)

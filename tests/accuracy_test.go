@@ -67,13 +67,7 @@ func worstAgainstConverged(t *testing.T, p *sim.Problem, tol float64) float64 {
 	if conv > 1e-6 {
 		t.Fatalf("reference not converged: halving its tolerance moves an intensity by %.2g", conv)
 	}
-	worst := 0.0
-	for k := range ref.Intensity {
-		for n := range ref.Intensity[k] {
-			worst = math.Max(worst, math.Abs(got.Intensity[k][n]-ref.Intensity[k][n]))
-		}
-	}
-	return worst
+	return sim.MaxDifference(got, ref)
 }
 
 // At the default tolerance every pixel of every image lies within 1e-4 of

@@ -3,7 +3,6 @@ package tests
 import (
 	"context"
 	"encoding/json"
-	"math"
 	"testing"
 
 	"faultline/scene"
@@ -44,7 +43,7 @@ func TestReplayAgreesWithRender(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if d := maxDiff(im0, fresh0); d > 1e-4 {
+	if d := sim.MaxDifference(im0, fresh0); d > 1e-4 {
 		t.Errorf("recording render differs from a plain one by %.3g", d)
 	}
 	for _, c := range []struct {
@@ -62,7 +61,7 @@ func TestReplayAgreesWithRender(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		d := maxDiff(got, want)
+		d := sim.MaxDifference(got, want)
 		t.Logf("s = %g, t = %g nm, absorption %g: replay within %.2e of a fresh render, %d columns afresh", c.s, c.t, c.abs, d, nFresh)
 		if d > 1e-4 {
 			t.Errorf("s = %g, t = %g: replay differs from a fresh render by %.3g", c.s, c.t, d)
@@ -71,16 +70,6 @@ func TestReplayAgreesWithRender(t *testing.T) {
 	if _, _, err := samples.Replay(ctx, base, 241, sim.Options{}); err == nil {
 		t.Error("replay beyond the recorded thickness accepted")
 	}
-}
-
-func maxDiff(a, b *sim.Image) float64 {
-	worst := 0.0
-	for k := range a.Intensity {
-		for n := range a.Intensity[k] {
-			worst = math.Max(worst, math.Abs(a.Intensity[k][n]-b.Intensity[k][n]))
-		}
-	}
-	return worst
 }
 
 // The systematic row replays too: the six-defect scene as a 7-beam row at
@@ -124,7 +113,7 @@ func TestRowReplayAgreesWithRender(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		d := maxDiff(got, want)
+		d := sim.MaxDifference(got, want)
 		t.Logf("%s: replay within %.2e of a fresh render, %d columns afresh", c.name, d, nFresh)
 		if d > 1e-4 {
 			t.Errorf("%s: replay differs from a fresh render by %.3g", c.name, d)

@@ -61,7 +61,7 @@ func TestSTableAgreesWithReplay(t *testing.T) {
 				if err != nil {
 					t.Fatal(err)
 				}
-				dr, df := maxDiff(got, replay), maxDiff(got, fresh)
+				dr, df := sim.MaxDifference(got, replay), sim.MaxDifference(got, fresh)
 				worstReplay, worstFresh = max(worstReplay, dr), max(worstFresh, df)
 				if dr > 1e-5 {
 					t.Errorf("s = %.6f: table differs from a replay by %.3g", s, dr)

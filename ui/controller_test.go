@@ -5,7 +5,6 @@ import (
 	"context"
 	"errors"
 	"faultline/assets"
-	"math"
 	"os"
 	"path/filepath"
 	"testing"
@@ -330,12 +329,7 @@ func TestPreviewToleranceAccuracy(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	worst := 0.0
-	for k := range ref.Intensity {
-		for i := range ref.Intensity[k] {
-			worst = math.Max(worst, math.Abs(got.Intensity[k][i]-ref.Intensity[k][i]))
-		}
-	}
+	worst := sim.MaxDifference(got, ref)
 	t.Logf("largest difference at tolerance %g: %.2g of the incident beam", PreviewTolerance, worst)
 	if worst > 1e-3 {
 		t.Errorf("preview tolerance changes an intensity by %.3g, want ≤ 1e-3", worst)

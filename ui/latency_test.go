@@ -2,7 +2,6 @@ package ui
 
 import (
 	"context"
-	"math"
 	"sort"
 	"testing"
 	"time"
@@ -215,12 +214,7 @@ func TestSliderMovesShowFullImage(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			worst := 0.0
-			for k := range want.Intensity {
-				for n := range want.Intensity[k] {
-					worst = math.Max(worst, math.Abs(want.Intensity[k][n]-r.Image.Intensity[k][n]))
-				}
-			}
+			worst := sim.MaxDifference(want, r.Image)
 			t.Logf("%s: image from %s within %.2g of a fresh render", c.name, r.Source, worst)
 			if worst > 1e-4 {
 				t.Errorf("%s: the image from %s differs from a fresh render by %.3g", c.name, r.Source, worst)

@@ -2,7 +2,6 @@ package ui
 
 import (
 	"context"
-	"math"
 	"strings"
 	"testing"
 	"time"
@@ -54,12 +53,7 @@ func TestSTableInWindow(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	worst := 0.0
-	for k := range want.Intensity {
-		for n := range want.Intensity[k] {
-			worst = math.Max(worst, math.Abs(want.Intensity[k][n]-r.Image.Intensity[k][n]))
-		}
-	}
+	worst := sim.MaxDifference(want, r.Image)
 	t.Logf("image from the table within %.2g of a fresh render; %s", worst, fullText(r))
 	if worst > 1e-4 {
 		t.Errorf("image from the table differs from a fresh render by %.3g", worst)
