@@ -522,46 +522,17 @@ func seriesPair(x complex128, mom []float64) (ijk, ikj, sec complex128) {
 }
 
 // taylorTerm sets w = c·a·t for the row-major n×n matrix a (n = len(t)),
-// adds w to u and returns Σ|w_r|²: one term of a Taylor series, two rows
-// at a time.
+// adds w to u and returns Σ|w_r|²: one term of a Taylor series.
 func taylorTerm(w, u, a, t []complex128, c float64) float64 {
 	n := len(t)
+	matVec(w, a, t, n)
 	w, u = w[:n], u[:n]
 	tn := 0.0
-	r := 0
-	for ; r+1 < n; r += 2 {
-		row0 := a[r*n : r*n+n]
-		row1 := a[r*n+n : r*n+2*n]
-		row0 = row0[:len(t)]
-		row1 = row1[:len(t)]
-		var re0, im0, re1, im1 float64
-		for k, v := range t {
-			x, y := row0[k], row1[k]
-			re0 += real(x)*real(v) - imag(x)*imag(v)
-			im0 += real(x)*imag(v) + imag(x)*real(v)
-			re1 += real(y)*real(v) - imag(y)*imag(v)
-			im1 += real(y)*imag(v) + imag(y)*real(v)
-		}
-		re0, im0, re1, im1 = c*re0, c*im0, c*re1, c*im1
-		w[r] = complex(re0, im0)
-		w[r+1] = complex(re1, im1)
-		u[r] += complex(re0, im0)
-		u[r+1] += complex(re1, im1)
-		tn += re0*re0 + im0*im0 + re1*re1 + im1*im1
-	}
-	if r < n {
-		row := a[r*n : r*n+n]
-		row = row[:len(t)]
-		var re, im float64
-		for k, v := range t {
-			x := row[k]
-			re += real(x)*real(v) - imag(x)*imag(v)
-			im += real(x)*imag(v) + imag(x)*real(v)
-		}
-		re, im = c*re, c*im
-		w[r] = complex(re, im)
-		u[r] += complex(re, im)
-		tn += re*re + im*im
+	for r, v := range w {
+		v = complex(c*real(v), c*imag(v))
+		w[r] = v
+		u[r] += v
+		tn += real(v)*real(v) + imag(v)*imag(v)
 	}
 	return tn
 }

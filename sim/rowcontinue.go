@@ -101,7 +101,7 @@ func (st *rowStepper) continueBloch(ba *rowBloch, dBeta float64) *rowBloch {
 					jac[i*n+k] = v
 				}
 			}
-			if !solveComplex(jac, res, n) {
+			if !solveComplex(jac, res, n, 1) {
 				return nil
 			}
 			for i := 0; i < n; i++ {
@@ -168,9 +168,11 @@ func pivotRow(a []complex128, n, c int) int {
 	return p
 }
 
-// solveComplex solves a·x = rhs in place (x in rhs) by Gaussian elimination
-// with partial pivoting; a is destroyed. It reports false for a singular a.
-func solveComplex(a, rhs []complex128, n int) bool {
+// solveComplex solves a·X = b in place (X in b) for the m right-hand
+// sides that are the columns of the row-major n×m matrix b, by Gaussian
+// elimination with partial pivoting; a is destroyed. It reports false for
+// a singular a.
+func solveComplex(a, b []complex128, n, m int) bool {
 	for c := 0; c < n; c++ {
 		p := pivotRow(a, n, c)
 		if p < 0 {
@@ -180,7 +182,9 @@ func solveComplex(a, rhs []complex128, n int) bool {
 			for k := 0; k < n; k++ {
 				a[c*n+k], a[p*n+k] = a[p*n+k], a[c*n+k]
 			}
-			rhs[c], rhs[p] = rhs[p], rhs[c]
+			for k := 0; k < m; k++ {
+				b[c*m+k], b[p*m+k] = b[p*m+k], b[c*m+k]
+			}
 		}
 		inv := 1 / a[c*n+c]
 		for r := c + 1; r < n; r++ {
@@ -191,55 +195,33 @@ func solveComplex(a, rhs []complex128, n int) bool {
 			for k := c; k < n; k++ {
 				a[r*n+k] -= f * a[c*n+k]
 			}
-			rhs[r] -= f * rhs[c]
+			for k := 0; k < m; k++ {
+				b[r*m+k] -= f * b[c*m+k]
+			}
 		}
 	}
 	for c := n - 1; c >= 0; c-- {
-		acc := rhs[c]
-		for k := c + 1; k < n; k++ {
-			acc -= a[c*n+k] * rhs[k]
+		inv := 1 / a[c*n+c]
+		for k := 0; k < m; k++ {
+			acc := b[c*m+k]
+			for j := c + 1; j < n; j++ {
+				acc -= a[c*n+j] * b[j*m+k]
+			}
+			b[c*m+k] = acc * inv
 		}
-		rhs[c] = acc / a[c*n+c]
 	}
 	return true
 }
 
-// invertComplex replaces a by its inverse (Gauss–Jordan with partial
-// pivoting); it reports false for a singular a.
+// invertComplex replaces a by its inverse (solveComplex with the identity
+// as right-hand sides); it reports false for a singular a.
 func invertComplex(a []complex128, n int) bool {
 	inv := make([]complex128, n*n)
 	for i := 0; i < n; i++ {
 		inv[i*n+i] = 1
 	}
-	for c := 0; c < n; c++ {
-		p := pivotRow(a, n, c)
-		if p < 0 {
-			return false
-		}
-		if p != c {
-			for k := 0; k < n; k++ {
-				a[c*n+k], a[p*n+k] = a[p*n+k], a[c*n+k]
-				inv[c*n+k], inv[p*n+k] = inv[p*n+k], inv[c*n+k]
-			}
-		}
-		d := 1 / a[c*n+c]
-		for k := 0; k < n; k++ {
-			a[c*n+k] *= d
-			inv[c*n+k] *= d
-		}
-		for r := 0; r < n; r++ {
-			if r == c {
-				continue
-			}
-			f := a[r*n+c]
-			if f == 0 {
-				continue
-			}
-			for k := 0; k < n; k++ {
-				a[r*n+k] -= f * a[c*n+k]
-				inv[r*n+k] -= f * inv[c*n+k]
-			}
-		}
+	if !solveComplex(a, inv, n, n) {
+		return false
 	}
 	copy(a, inv)
 	return true
