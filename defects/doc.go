@@ -137,7 +137,7 @@
 // own Phase (loopPhase: the scalars of its closed form and of its far
 // field dotted with g, TestLoopPhaseMatchesDirect), a fault g·R through
 // R. BenchmarkPhaseSum and BenchmarkSumDirect compare the two ways on a
-// sum like the demo scene's, BenchmarkPhaseLoop* and BenchmarkLoop* a
+// sum like the demo scene's, BenchmarkPhaseLoop and BenchmarkLoop (by shell) a
 // loop's.
 //
 // # Stiffness rotation

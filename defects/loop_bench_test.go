@@ -63,21 +63,6 @@ func benchPhasePoints(b *testing.B, f Field, pts []r3.Vec) {
 	}
 }
 
-func BenchmarkLoopNear(b *testing.B) {
-	l := benchLoop()
-	benchPoints(b, l, shellPoints(l, 4096, 0.05, 1, true))
-}
-
-func BenchmarkLoopMid(b *testing.B) {
-	l := benchLoop()
-	benchPoints(b, l, shellPoints(l, 4096, 2, 4, false))
-}
-
-func BenchmarkLoopFar(b *testing.B) {
-	l := benchLoop()
-	benchPoints(b, l, shellPoints(l, 4096, 8, 20, false))
-}
-
 // imageSamples returns the depths at which an adaptive column integrator
 // samples g·R for every column of an nx × ny image of w × w nm over a foil
 // of thickness t: each slab of a column is bisected until g·R at its
@@ -121,19 +106,28 @@ func imageSamples(f Field, jumps func(x, y, z0, z1 float64) []float64, g float64
 	return pts
 }
 
-func BenchmarkPhaseLoopNear(b *testing.B) {
-	l := benchLoop()
-	benchPhasePoints(b, l, shellPoints(l, 4096, 0.05, 1, true))
-}
+// loopShells are the shells about the loop's line of the point benchmarks
+// (shellPoints): within a radius of its line, a few radii off, far away.
+var loopShells = []struct {
+	name     string
+	r0, r1   float64
+	nearLine bool
+}{{"Near", 0.05, 1, true}, {"Mid", 2, 4, false}, {"Far", 8, 20, false}}
 
-func BenchmarkPhaseLoopMid(b *testing.B) {
-	l := benchLoop()
-	benchPhasePoints(b, l, shellPoints(l, 4096, 2, 4, false))
-}
+// BenchmarkLoop and BenchmarkPhaseLoop: one evaluation of the loop's R
+// (benchPoints) and of its g·R by the fast path (benchPhasePoints) at
+// points of each shell.
+func BenchmarkLoop(b *testing.B)      { benchShells(b, benchPoints) }
+func BenchmarkPhaseLoop(b *testing.B) { benchShells(b, benchPhasePoints) }
 
-func BenchmarkPhaseLoopFar(b *testing.B) {
-	l := benchLoop()
-	benchPhasePoints(b, l, shellPoints(l, 4096, 8, 20, false))
+// benchShells runs bench on the loop at the points of each of loopShells.
+func benchShells(b *testing.B, bench func(*testing.B, Field, []r3.Vec)) {
+	for _, sh := range loopShells {
+		b.Run(sh.name, func(b *testing.B) {
+			l := benchLoop()
+			bench(b, l, shellPoints(l, 4096, sh.r0, sh.r1, sh.nearLine))
+		})
+	}
 }
 
 // BenchmarkLoopImage averages over the samples of a 64 × 64 image,
@@ -149,21 +143,12 @@ func BenchmarkLoopImage(b *testing.B) {
 // BenchmarkLoopImageGrid averages over every nanometre of depth of every
 // column of the same image: the samples a scene with other defects (whose
 // fields set the steps) makes the loop answer too.
-func BenchmarkLoopImageGrid(b *testing.B) {
-	l := benchLoop()
-	var pts []r3.Vec
-	for i := range 64 {
-		for j := range 64 {
-			for k := range 100 {
-				pts = append(pts, r3.Vec{X: (float64(i) - 31.5) * 200 / 64, Y: (float64(j) - 31.5) * 200 / 64, Z: float64(k) + 0.5})
-			}
-		}
-	}
-	benchPoints(b, l, pts)
-}
+func BenchmarkLoopImageGrid(b *testing.B)      { benchPoints(b, benchLoop(), imageGrid()) }
+func BenchmarkPhaseLoopImageGrid(b *testing.B) { benchPhasePoints(b, benchLoop(), imageGrid()) }
 
-func BenchmarkPhaseLoopImageGrid(b *testing.B) {
-	l := benchLoop()
+// imageGrid is the centre of every nanometre of depth of every column of
+// a 64 × 64 image over 200 nm × 200 nm of a 100 nm foil.
+func imageGrid() []r3.Vec {
 	var pts []r3.Vec
 	for i := range 64 {
 		for j := range 64 {
@@ -172,5 +157,5 @@ func BenchmarkPhaseLoopImageGrid(b *testing.B) {
 			}
 		}
 	}
-	benchPhasePoints(b, l, pts)
+	return pts
 }

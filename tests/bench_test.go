@@ -36,13 +36,7 @@ func BenchmarkRenderScene(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	g := st.Problem.Grid
-	for b.Loop() {
-		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
-			b.Fatal(err)
-		}
-	}
-	b.ReportMetric(float64(g.NX*g.NY)*float64(b.N)/b.Elapsed().Seconds(), "columns/s")
+	benchRender(b, st.Problem)
 }
 
 // Anisotropic against isotropic elasticity: a 256×256 two-beam render of
@@ -55,15 +49,21 @@ func benchmarkElasticity(b *testing.B, elasticity string) {
 // benchmarkModel renders the scene of benchmarkElasticity with the
 // deviation and model given as diffraction fields.
 func benchmarkModel(b *testing.B, elasticity, diffraction string) {
-	st := oneDislocation(b, elasticity, diffraction, 256)
+	benchRender(b, oneDislocation(b, elasticity, diffraction, 256).Problem)
+}
+
+// benchRender renders p b.N times and reports the CPU seconds per render
+// (cpu-s/op) and the columns per second of wall time.
+func benchRender(b *testing.B, p *sim.Problem) {
 	cpu := startCPU()
 	for b.Loop() {
-		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
+		if _, err := sim.Render(context.Background(), p, sim.Options{}); err != nil {
 			b.Fatal(err)
 		}
 	}
 	cpu.report(b)
-	b.ReportMetric(256*256*float64(b.N)/b.Elapsed().Seconds(), "columns/s")
+	g := p.Grid
+	b.ReportMetric(float64(g.NX*g.NY)*float64(b.N)/b.Elapsed().Seconds(), "columns/s")
 }
 
 // oneDislocation builds the scene of the elasticity and row benchmarks:
@@ -128,14 +128,7 @@ func BenchmarkRenderSceneVsNumpy(b *testing.B) {
 // BenchmarkDemo512 is the demo scene (assets/demo.json) rendered at 512²
 // at the default tolerance (target: 0.6 s wall on 2 cores).
 func BenchmarkDemo512(b *testing.B) {
-	st := loadScene(b, "../assets/demo.json", 512, 512, 0)
-	cpu := startCPU()
-	for b.Loop() {
-		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
-			b.Fatal(err)
-		}
-	}
-	cpu.report(b)
+	benchRender(b, loadScene(b, "../assets/demo.json", 512, 512, 0).Problem)
 }
 
 // BenchmarkDemo256Cold and BenchmarkDemo256SChange: the demo scene at
@@ -143,14 +136,7 @@ func BenchmarkDemo512(b *testing.B) {
 // (0.004 to 0.006 /nm) by replaying the field samples of a recorded render
 // (target: at most a tenth of the cold render).
 func BenchmarkDemo256Cold(b *testing.B) {
-	st := loadScene(b, "../assets/demo.json", 256, 256, 0)
-	cpu := startCPU()
-	for b.Loop() {
-		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
-			b.Fatal(err)
-		}
-	}
-	cpu.report(b)
+	benchRender(b, loadScene(b, "../assets/demo.json", 256, 256, 0).Problem)
 }
 
 func BenchmarkDemo256SChange(b *testing.B) {

@@ -20,14 +20,7 @@ func BenchmarkDamageLoops256(b *testing.B) {
 }
 
 func benchmarkScene256(b *testing.B, path string) {
-	st := loadScene(b, path, 256, 256, 0)
-	cpu := startCPU()
-	for b.Loop() {
-		if _, err := sim.Render(context.Background(), st.Problem, sim.Options{}); err != nil {
-			b.Fatal(err)
-		}
-	}
-	cpu.report(b)
+	benchRender(b, loadScene(b, path, 256, 256, 0).Problem)
 }
 
 // BenchmarkDemoField is the cost of one g·R evaluation of the demo scene

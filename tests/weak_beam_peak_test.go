@@ -223,7 +223,7 @@ func rowCase(t *testing.T, st *scene.Setup, pc *pyref.WeakBeamCase) {
 // at +5 nm is a maximum below the background, which the planner does not
 // count as resolved).
 func TestWeakBeamDissociatedPairAgainstNumpy(t *testing.T) {
-	var results []struct {
+	type result struct {
 		n      int
 		u, df  []float64
 		bg     float64
@@ -232,6 +232,7 @@ func TestWeakBeamDissociatedPairAgainstNumpy(t *testing.T) {
 		ref    int
 		sideGo float64
 	}
+	var results []result
 	var cases []pyref.WeakBeamCase
 	for _, n := range []int{3, 4} {
 		st := setup(t, fmt.Sprintf(`{"version": 1, "crystal": {"material": "Cu"}, "microscope": {"voltage_kv": 200},
@@ -273,15 +274,7 @@ func TestWeakBeamDissociatedPairAgainstNumpy(t *testing.T) {
 		pc := pyref.WeakBeamCase{Kind: "edge", Nu: nu, Cores: []pyref.WeakBeamCore{{X: -5, GB: 1}, {X: 5, GB: 1}},
 			ThicknessNm: []float64{80}, XNm: xs, StepNm: 0.2}
 		rowCase(t, st, &pc)
-		results = append(results, struct {
-			n      int
-			u, df  []float64
-			bg     float64
-			reach  float64
-			cores  [2]float64
-			ref    int
-			sideGo float64
-		}{n, u, im.Intensity[k], perfect(st)[k], reach, [2]float64{-5, 5}, len(cases), side})
+		results = append(results, result{n, u, im.Intensity[k], perfect(st)[k], reach, [2]float64{-5, 5}, len(cases), side})
 		cases = append(cases, pc)
 	}
 	ref := pyref.WeakBeam(t, cases)
