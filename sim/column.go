@@ -131,9 +131,6 @@ type column struct {
 	// whose slabs are checked at their midpoints (see the step control
 	// above); set by run.
 	mid bool
-	// safety is the fraction of the tolerance predicted slabs aim at:
-	// the constant safety, or rowSafety with mid.
-	safety float64
 }
 
 // secondOrderStepper is implemented by steppers whose slab error is of
@@ -222,10 +219,6 @@ func (c *column) run(x, y float64) {
 	c.x, c.y = x, y
 	z0, z1 := c.p.surfaces(x, y)
 	c.mid = midChecked(c.st, c.also)
-	c.safety = safety
-	if c.mid {
-		c.safety = rowSafety
-	}
 	c.st.Start(c.psi)
 	c.breaks = c.breaks[:0]
 	c.voids = c.voids[:0]
@@ -296,6 +289,12 @@ func (c *column) segment(a, b, ga float64) float64 {
 	}
 	za := a
 	h := math.Min(b-a, firstCycles/c.beat(0))
+	// aim is what predicted slabs aim at: safety, or rowSafety with mid,
+	// times the tolerance.
+	aim := safety * c.tol
+	if c.mid {
+		aim = rowSafety * c.tol
+	}
 	for b-za > 1e-12 {
 		var gb, d1, d2, quad, quart, rm float64
 		known := math.NaN() // γ(za + h) when a rejected slab sampled it
@@ -331,7 +330,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 				m := math.Abs(c.gamma(za+h/2) - ga - d/2 - cubicMid(d1, d2))
 				if em := midWeight * m; em > err {
 					err = em
-					rm = math.Sqrt(math.Sqrt(c.safety * c.tol / em))
+					rm = math.Sqrt(math.Sqrt(aim / em))
 				}
 			}
 			if x := err + d1 + d2; x-x != 0 { // a NaN or an infinity
@@ -344,7 +343,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 				break
 			}
 			c.nRejects++
-			r := clamp(math.Min(rm, predict(quad, quart, c.safety*c.tol)), 0.1, 0.9)
+			r := clamp(math.Min(rm, predict(quad, quart, aim)), 0.1, 0.9)
 			known = math.NaN()
 			if r >= reuseFrom {
 				// Retry ending at the second Gauss node, whose γ is known.
@@ -358,7 +357,7 @@ func (c *column) segment(a, b, ga float64) float64 {
 		}
 		// The next slab's length first: its square roots and division
 		// overlap the step.
-		next := h * clamp(math.Min(rm, predict(quad, quart, c.safety*c.tol)), 0, 3)
+		next := h * clamp(math.Min(rm, predict(quad, quart, aim)), 0, 3)
 		c.st.Crystal(c.psi, h, (gb-ga)/h, d1, d2)
 		c.rec.slab(h, gb-ga, d1, d2)
 		c.nSlabs++
